@@ -1,0 +1,632 @@
+package lp
+
+import (
+	"errors"
+	"fmt"
+	"math"
+
+	"gonum.org/v1/gonum/mat"
+)
+
+// Errors returned by Solve. They are wrapped with detail; test with errors.Is.
+var (
+	ErrInfeasible     = errors.New("lp: no feasible solution")
+	ErrUnbounded      = errors.New("lp: objective unbounded below")
+	ErrNumerical      = errors.New("lp: numerical trouble")
+	ErrIterationLimit = errors.New("lp: iteration limit reached")
+	ErrShape          = errors.New("lp: malformed problem")
+)
+
+// Problem is a linear program in standard form: minimise C'x subject to
+// A x = B and x >= 0. A holds the Rows x len(C) matrix column by column:
+// column j is A[j*Rows : (j+1)*Rows].
+type Problem struct {
+	Rows int
+	A    []float64
+	B    []float64
+	C    []float64
+}
+
+// Cols is the number of columns (variables).
+func (p *Problem) Cols() int { return len(p.C) }
+
+// Column returns column j of A (a view, not a copy).
+func (p *Problem) Column(j int) []float64 { return p.A[j*p.Rows : (j+1)*p.Rows] }
+
+// Options tune a solve. The zero value is ready to use.
+type Options struct {
+	// Basis, when it has Rows entries, names the columns of a starting basis
+	// that the caller believes primal feasible. If it is singular or
+	// infeasible the solver falls back to phase 1.
+	Basis []int
+	// MaxIter bounds the number of pivots (0: 50*(Rows+Cols)+1000).
+	MaxIter int
+	// NoScale turns off row and column scaling.
+	NoScale bool
+}
+
+// Solution is an optimal basic solution, or on ErrInfeasible a Farkas
+// certificate in Y.
+type Solution struct {
+	X      []float64 // primal values, one per column
+	Y      []float64 // dual values, one per row: C - A'Y >= 0 at optimality
+	D      []float64 // reduced costs C - A'Y, one per column
+	Obj    float64   // C'X
+	Basis  []int     // the optimal basis (column per row position); -1 marks a redundant row
+	Iter   int       // pivots made, both phases
+	Phase1 bool      // whether phase 1 ran
+	Bland  int       // pivots made under Bland's rule
+}
+
+// Tolerances, in the scaled problem.
+const (
+	tolPivot    = 1e-9  // smallest pivot element accepted
+	tolOpt      = 1e-9  // reduced cost below -tolOpt is a candidate to enter
+	tolFeas     = 1e-9  // basic values above -tolFeas count as feasible
+	harrisDelta = 1e-10 // Harris relaxation of the ratio test
+	// RefactorEvery is the number of pivots between fresh factorisations.
+	RefactorEvery = 50
+	// StallLimit is the number of pivots without strict progress after
+	// which Bland's rule takes over.
+	StallLimit = 30
+)
+
+type solver struct {
+	m, n                 int // rows, structural columns
+	p                    *Problem
+	r, s                 []float64 // row and column scale factors
+	b                    []float64 // scaled right-hand side
+	cost                 []float64 // current phase costs, length n+m (artificials after n)
+	basis                []int     // column per row position
+	pos                  []int     // position in basis per column, -1 if nonbasic
+	binv                 []float64 // m x m row-major inverse of the basis
+	xb                   []float64 // basic values
+	y                    []float64 // duals (scaled)
+	alpha                []float64
+	col                  []float64
+	barred               []bool // columns that may not enter (artificials in phase 2)
+	artSign              []float64
+	iter, bland, maxIter int
+	sinceRefactor        int
+}
+
+// Solve solves p. It never panics on malformed input: shapes are checked and
+// reported as ErrShape.
+func Solve(p *Problem, opt *Options) (*Solution, error) {
+	if opt == nil {
+		opt = &Options{}
+	}
+	m, n := p.Rows, len(p.C)
+	if m <= 0 || len(p.B) != m || len(p.A) != m*n {
+		return nil, fmt.Errorf("%w: %d rows, %d costs, %d right-hand sides, %d matrix entries", ErrShape, m, n, len(p.B), len(p.A))
+	}
+	for _, v := range p.A {
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return nil, fmt.Errorf("%w: matrix holds %v", ErrShape, v)
+		}
+	}
+	for _, v := range p.B {
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return nil, fmt.Errorf("%w: right-hand side holds %v", ErrShape, v)
+		}
+	}
+	for _, v := range p.C {
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return nil, fmt.Errorf("%w: cost holds %v", ErrShape, v)
+		}
+	}
+	sv := &solver{m: m, n: n, p: p}
+	sv.maxIter = opt.MaxIter
+	if sv.maxIter <= 0 {
+		sv.maxIter = 50*(m+n) + 1000
+	}
+	sv.scale(!opt.NoScale)
+	sv.basis = make([]int, m)
+	sv.pos = make([]int, n+m)
+	sv.binv = make([]float64, m*m)
+	sv.xb = make([]float64, m)
+	sv.y = make([]float64, m)
+	sv.alpha = make([]float64, m)
+	sv.col = make([]float64, m)
+	sv.cost = make([]float64, n+m)
+	sv.barred = make([]bool, n+m)
+	sv.artSign = make([]float64, m)
+	for i := range sv.artSign {
+		sv.artSign[i] = 1
+		if sv.b[i] < 0 {
+			sv.artSign[i] = -1
+		}
+	}
+
+	sol := &Solution{}
+	started := false
+	if len(opt.Basis) == m {
+		started = sv.tryBasis(opt.Basis)
+	}
+	if !started {
+		sol.Phase1 = true
+		if err := sv.phase1(); err != nil {
+			if errors.Is(err, ErrInfeasible) {
+				sol.Y = sv.unscaledDuals()
+				sol.Iter, sol.Bland = sv.iter, sv.bland
+			}
+			return sol, err
+		}
+	}
+	for j := 0; j < n; j++ {
+		sv.cost[j] = p.C[j] * sv.s[j]
+	}
+	for k := n; k < n+m; k++ {
+		sv.cost[k] = 0
+		sv.barred[k] = true
+	}
+	if err := sv.optimise(); err != nil {
+		sol.Iter, sol.Bland = sv.iter, sv.bland
+		return sol, err
+	}
+	sv.fill(sol)
+	return sol, nil
+}
+
+// scale computes power-of-two row and column factors so that the largest
+// magnitude in every row and column of the scaled matrix is near 1.
+func (sv *solver) scale(on bool) {
+	m, n, a := sv.m, sv.n, sv.p.A
+	sv.r = make([]float64, m)
+	sv.s = make([]float64, n)
+	sv.b = make([]float64, m)
+	for i := range sv.r {
+		sv.r[i] = 1
+	}
+	for j := range sv.s {
+		sv.s[j] = 1
+	}
+	if on {
+		rmax := make([]float64, m)
+		for j := 0; j < n; j++ {
+			c := a[j*m : (j+1)*m]
+			for i, v := range c {
+				if v < 0 {
+					v = -v
+				}
+				if v > rmax[i] {
+					rmax[i] = v
+				}
+			}
+		}
+		for i, v := range rmax {
+			if v > 0 {
+				sv.r[i] = pow2(1 / v)
+			}
+		}
+		for j := 0; j < n; j++ {
+			c := a[j*m : (j+1)*m]
+			cm := 0.0
+			for i, v := range c {
+				v = math.Abs(v * sv.r[i])
+				if v > cm {
+					cm = v
+				}
+			}
+			if cm > 0 {
+				sv.s[j] = pow2(1 / cm)
+			}
+		}
+	}
+	for i := range sv.b {
+		sv.b[i] = sv.p.B[i] * sv.r[i]
+	}
+}
+
+// pow2 rounds v to the nearest power of two, so scaling adds no rounding error.
+func pow2(v float64) float64 {
+	_, e := math.Frexp(v)
+	return math.Ldexp(1, e-1)
+}
+
+// column writes scaled column j (structural or artificial) into dst.
+func (sv *solver) column(j int, dst []float64) {
+	if j >= sv.n {
+		for i := range dst {
+			dst[i] = 0
+		}
+		dst[j-sv.n] = sv.artSign[j-sv.n]
+		return
+	}
+	c := sv.p.A[j*sv.m : (j+1)*sv.m]
+	sj := sv.s[j]
+	for i, v := range c {
+		dst[i] = v * sv.r[i] * sj
+	}
+}
+
+// dotColumn returns (scaled column j) . v.
+func (sv *solver) dotColumn(j int, v []float64) float64 {
+	if j >= sv.n {
+		k := j - sv.n
+		return sv.artSign[k] * v[k]
+	}
+	c := sv.p.A[j*sv.m : (j+1)*sv.m]
+	t := 0.0
+	for i, a := range c {
+		t += a * sv.r[i] * v[i]
+	}
+	return t * sv.s[j]
+}
+
+// tryBasis installs a caller's basis; it reports false when the basis is
+// singular or not primal feasible.
+func (sv *solver) tryBasis(basis []int) bool {
+	for i := range sv.pos {
+		sv.pos[i] = -1
+	}
+	for k, j := range basis {
+		if j < 0 || j >= sv.n || sv.pos[j] >= 0 {
+			return false
+		}
+		sv.basis[k] = j
+		sv.pos[j] = k
+	}
+	if sv.refactor() != nil {
+		return false
+	}
+	for _, v := range sv.xb {
+		if v < -1e-7 {
+			return false
+		}
+	}
+	return true
+}
+
+// refactor recomputes the basis inverse and the basic values from scratch.
+func (sv *solver) refactor() error {
+	m := sv.m
+	B := mat.NewDense(m, m, nil)
+	for k, j := range sv.basis {
+		sv.column(j, sv.col)
+		for i := 0; i < m; i++ {
+			B.Set(i, k, sv.col[i])
+		}
+	}
+	var lu mat.LU
+	lu.Factorize(B)
+	if c := lu.Cond(); c > 1e13 || math.IsNaN(c) || math.IsInf(c, 0) {
+		return fmt.Errorf("%w: basis condition number %.3g", ErrNumerical, c)
+	}
+	inv := mat.NewDense(m, m, sv.binv)
+	eye := mat.NewDense(m, m, nil)
+	for i := 0; i < m; i++ {
+		eye.Set(i, i, 1)
+	}
+	if err := lu.SolveTo(inv, false, eye); err != nil {
+		return fmt.Errorf("%w: %v", ErrNumerical, err)
+	}
+	for i := 0; i < m; i++ {
+		t := 0.0
+		row := sv.binv[i*m : (i+1)*m]
+		for k, v := range row {
+			t += v * sv.b[k]
+		}
+		sv.xb[i] = t
+	}
+	sv.sinceRefactor = 0
+	return nil
+}
+
+// phase1 finds a feasible basis, starting from the artificial basis.
+func (sv *solver) phase1() error {
+	m, n := sv.m, sv.n
+	for i := range sv.pos {
+		sv.pos[i] = -1
+	}
+	for k := 0; k < m; k++ {
+		sv.basis[k] = n + k
+		sv.pos[n+k] = k
+	}
+	for j := range sv.cost {
+		sv.cost[j] = 0
+		sv.barred[j] = false
+	}
+	for k := n; k < n+m; k++ {
+		sv.cost[k] = 1
+	}
+	if err := sv.refactor(); err != nil {
+		return err
+	}
+	if err := sv.optimise(); err != nil {
+		return err
+	}
+	sum, bmax := 0.0, 1.0
+	for k, j := range sv.basis {
+		if j >= n {
+			sum += sv.xb[k]
+		}
+	}
+	for _, v := range sv.b {
+		bmax = math.Max(bmax, math.Abs(v))
+	}
+	if sum > 1e-8*bmax {
+		sv.computeDuals()
+		return fmt.Errorf("%w: phase 1 ends with infeasibility %.3g", ErrInfeasible, sum)
+	}
+	// Drive artificials out of the basis where a structural column can replace them.
+	for k := 0; k < m; k++ {
+		if sv.basis[k] < n {
+			continue
+		}
+		best, bestV := -1, 1e-7
+		row := sv.binv[k*m : (k+1)*m]
+		for j := 0; j < n; j++ {
+			if sv.pos[j] >= 0 {
+				continue
+			}
+			if v := math.Abs(sv.dotColumn(j, row)); v > bestV {
+				best, bestV = j, v
+			}
+		}
+		if best >= 0 {
+			sv.column(best, sv.col)
+			sv.ftran(sv.col, sv.alpha)
+			sv.pivot(k, best)
+		}
+	}
+	return sv.refactor()
+}
+
+// ftran computes dst = Binv * a.
+func (sv *solver) ftran(a, dst []float64) {
+	m := sv.m
+	for i := 0; i < m; i++ {
+		row := sv.binv[i*m : (i+1)*m]
+		t := 0.0
+		for k, v := range row {
+			t += v * a[k]
+		}
+		dst[i] = t
+	}
+}
+
+// computeDuals sets y = c_B' Binv.
+func (sv *solver) computeDuals() {
+	m := sv.m
+	for i := range sv.y {
+		sv.y[i] = 0
+	}
+	for k, j := range sv.basis {
+		c := sv.cost[j]
+		if c == 0 {
+			continue
+		}
+		row := sv.binv[k*m : (k+1)*m]
+		for i, v := range row {
+			sv.y[i] += c * v
+		}
+	}
+}
+
+// pivot makes column q basic in position r, using sv.alpha = Binv a_q.
+func (sv *solver) pivot(r, q int) {
+	m := sv.m
+	ar := sv.alpha[r]
+	step := sv.xb[r] / ar
+	for i := 0; i < m; i++ {
+		if i != r {
+			sv.xb[i] -= step * sv.alpha[i]
+		}
+	}
+	sv.xb[r] = step
+	rowR := sv.binv[r*m : (r+1)*m]
+	for k := range rowR {
+		rowR[k] /= ar
+	}
+	for i := 0; i < m; i++ {
+		if i == r || sv.alpha[i] == 0 {
+			continue
+		}
+		f := sv.alpha[i]
+		row := sv.binv[i*m : (i+1)*m]
+		for k, v := range rowR {
+			row[k] -= f * v
+		}
+	}
+	old := sv.basis[r]
+	sv.pos[old] = -1
+	sv.basis[r] = q
+	sv.pos[q] = r
+	sv.iter++
+	sv.sinceRefactor++
+}
+
+// optimise runs the primal simplex method on the current costs from the
+// current (feasible) basis.
+func (sv *solver) optimise() error {
+	m, n := sv.m, sv.n
+	stall := 0
+	useBland := false
+	lastObj := math.Inf(1)
+	for checks := 0; ; {
+		if sv.iter >= sv.maxIter {
+			return fmt.Errorf("%w after %d pivots", ErrIterationLimit, sv.iter)
+		}
+		if sv.sinceRefactor >= RefactorEvery {
+			if err := sv.refactor(); err != nil {
+				return err
+			}
+		}
+		sv.computeDuals()
+		// Pricing.
+		q, best := -1, -tolOpt
+		for j := 0; j < n+m; j++ {
+			if sv.pos[j] >= 0 || sv.barred[j] {
+				continue
+			}
+			if j >= n && sv.cost[j] == 0 {
+				continue
+			}
+			d := sv.cost[j] - sv.dotColumn(j, sv.y)
+			if d < best {
+				q, best = j, d
+				if useBland {
+					break
+				}
+			}
+		}
+		if q < 0 {
+			// Optimal by the running inverse: confirm with a fresh one.
+			if sv.sinceRefactor == 0 || checks > 3 {
+				return sv.finalCheck()
+			}
+			checks++
+			if err := sv.refactor(); err != nil {
+				return err
+			}
+			continue
+		}
+		sv.column(q, sv.col)
+		sv.ftran(sv.col, sv.alpha)
+		r := sv.ratio(useBland)
+		if r < 0 {
+			return fmt.Errorf("%w: column %d can grow without limit", ErrUnbounded, q)
+		}
+		sv.pivot(r, q)
+		if useBland {
+			sv.bland++
+		}
+		obj := 0.0
+		for k, j := range sv.basis {
+			obj += sv.cost[j] * sv.xb[k]
+		}
+		if obj < lastObj-1e-12*math.Max(1, math.Abs(obj)) {
+			lastObj = obj
+			stall = 0
+			useBland = false
+		} else {
+			stall++
+			if stall >= StallLimit {
+				useBland = true
+			}
+		}
+	}
+}
+
+// ratio chooses the leaving row for the entering column held in sv.alpha,
+// or -1 when no row limits it.
+func (sv *solver) ratio(bland bool) int {
+	m := sv.m
+	if bland {
+		r, minR := -1, math.Inf(1)
+		for i := 0; i < m; i++ {
+			a := sv.alpha[i]
+			if a <= tolPivot {
+				continue
+			}
+			x := math.Max(sv.xb[i], 0)
+			t := x / a
+			switch {
+			case r < 0 || t < minR-1e-12*(1+minR):
+				r, minR = i, t
+			case t <= minR+1e-12*(1+minR) && sv.basis[i] < sv.basis[r]:
+				r = i
+				if t < minR {
+					minR = t
+				}
+			}
+		}
+		return r
+	}
+	// Harris: pass 1 finds the relaxed bound, pass 2 the largest pivot within it.
+	bound := math.Inf(1)
+	for i := 0; i < m; i++ {
+		a := sv.alpha[i]
+		if a <= tolPivot {
+			continue
+		}
+		t := (math.Max(sv.xb[i], 0) + harrisDelta) / a
+		if t < bound {
+			bound = t
+		}
+	}
+	if math.IsInf(bound, 1) {
+		return -1
+	}
+	r, bestA := -1, 0.0
+	for i := 0; i < m; i++ {
+		a := sv.alpha[i]
+		if a <= tolPivot {
+			continue
+		}
+		if math.Max(sv.xb[i], 0)/a <= bound && a > bestA {
+			r, bestA = i, a
+		}
+	}
+	if r >= 0 && sv.xb[r] < 0 {
+		sv.xb[r] = 0 // tiny infeasibility from an earlier Harris step: pivot degenerately
+	}
+	return r
+}
+
+// finalCheck verifies, with a fresh inverse, that the basis is feasible.
+func (sv *solver) finalCheck() error {
+	if sv.sinceRefactor != 0 {
+		if err := sv.refactor(); err != nil {
+			return err
+		}
+	}
+	xmax := 1.0
+	for _, v := range sv.xb {
+		xmax = math.Max(xmax, math.Abs(v))
+	}
+	for k, v := range sv.xb {
+		if v < -1e-7*xmax {
+			return fmt.Errorf("%w: basic variable %d is %.3g after refactorisation", ErrNumerical, sv.basis[k], v)
+		}
+	}
+	return nil
+}
+
+func (sv *solver) unscaledDuals() []float64 {
+	sv.computeDuals()
+	y := make([]float64, sv.m)
+	for i, v := range sv.y {
+		y[i] = v * sv.r[i]
+	}
+	return y
+}
+
+// fill writes the unscaled solution.
+func (sv *solver) fill(sol *Solution) {
+	p := sv.p
+	sol.X = make([]float64, sv.n)
+	sol.Basis = make([]int, sv.m)
+	for k, j := range sv.basis {
+		if j >= sv.n {
+			sol.Basis[k] = -1
+			continue
+		}
+		sol.Basis[k] = j
+		v := sv.xb[k]
+		if v < 0 {
+			v = 0
+		}
+		sol.X[j] = v * sv.s[j]
+	}
+	sol.Y = sv.unscaledDuals()
+	sol.D = make([]float64, sv.n)
+	obj := 0.0
+	for j := 0; j < sv.n; j++ {
+		c := p.A[j*sv.m : (j+1)*sv.m]
+		t := 0.0
+		for i, a := range c {
+			t += a * sol.Y[i]
+		}
+		sol.D[j] = p.C[j] - t
+		obj += p.C[j] * sol.X[j]
+	}
+	for _, j := range sol.Basis {
+		if j >= 0 {
+			sol.D[j] = 0
+		}
+	}
+	sol.Obj = obj
+	sol.Iter, sol.Bland = sv.iter, sv.bland
+}
