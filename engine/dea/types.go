@@ -131,10 +131,11 @@ type Weight struct {
 // not taken from the solver.
 type Certificate struct {
 	Verified    bool    `json:"verified"`
-	PrimalError float64 `json:"primalError"` // largest primal constraint violation (scaled)
-	DualError   float64 `json:"dualError"`   // largest dual constraint violation (scaled)
-	Gap         float64 `json:"gap"`         // |primal objective - dual objective|
-	Tolerance   float64 `json:"tolerance"`   // the bound all three must meet
+	PrimalError float64 `json:"primalError"`  // largest primal constraint violation (scaled)
+	DualError   float64 `json:"dualError"`    // largest dual constraint violation (scaled)
+	Gap         float64 `json:"gap"`          // |primal objective - dual objective|
+	Tolerance   float64 `json:"tolerance"`    // the bound all three must meet
+	Checked     int     `json:"checkedUnits"` // how many units the dual check covered
 }
 
 // UnitResult is everything reported for one unit.
@@ -165,8 +166,9 @@ type UnitResult struct {
 
 	// Super-efficiency (Model.Super): nil when no finite value exists, and
 	// SuperNote says why in plain words.
-	Super     *float64 `json:"super"`
-	SuperNote string   `json:"superNote,omitempty"`
+	Super     *float64     `json:"super"`
+	SuperCert *Certificate `json:"superCertificate,omitempty"`
+	SuperNote string       `json:"superNote,omitempty"`
 }
 
 // Result is a whole run.

@@ -1,0 +1,178 @@
+package dea
+
+import "math"
+
+// certTolerance bounds every violation of a verified certificate, in data
+// scaled per measure by its mean.
+const certTolerance = 1e-7
+
+// fullCheckLimit is the study size up to which the dual check of every
+// certificate covers all units; above it, it covers the reference set, which
+// is enough by the argument in Frontier's doc comment.
+const fullCheckLimit = 2000
+
+// certify checks a point's solution against the data, independently of the
+// solver's own claims. It recomputes every constraint of the envelopment
+// program from lambda, the slacks and the score (primal), every constraint of
+// the multiplier program from the dual values (the weights must not put any
+// unit of checkSet beyond the frontier), and the gap between the primal score
+// and the dual objective.
+func (e *envelope) certify(p *point, x0, y0 []float64, self int, checkSet []int) Certificate {
+	sc := e.sc
+	ms := sc.m + sc.s
+	input := e.model.Orientation == Input
+	cert := Certificate{Tolerance: certTolerance, Checked: len(checkSet)}
+	viol := func(dst *float64, v float64) {
+		if v > *dst || math.IsNaN(v) {
+			*dst = v
+		}
+	}
+	// Primal: lambda and slacks non-negative; the rows hold.
+	sumX := make([]float64, sc.m)
+	sumY := make([]float64, sc.s)
+	sumL := 0.0
+	add := func(j int, l float64) {
+		viol(&cert.PrimalError, -l)
+		for i := range sumX {
+			sumX[i] += l * sc.x[j][i]
+		}
+		for r := range sumY {
+			sumY[r] += l * sc.y[j][r]
+		}
+		sumL += l
+	}
+	for k, j := range e.ref {
+		add(j, p.lambda[k])
+	}
+	if p.self != 0 && self >= 0 {
+		add(self, p.self)
+	}
+	for _, v := range p.sIn {
+		viol(&cert.PrimalError, -v)
+	}
+	for _, v := range p.sOut {
+		viol(&cert.PrimalError, -v)
+	}
+	for i := 0; i < sc.m; i++ {
+		rhs := x0[i]
+		if input {
+			rhs = p.score * x0[i]
+		}
+		viol(&cert.PrimalError, math.Abs(sumX[i]+p.sIn[i]-rhs)/(1+math.Abs(rhs)))
+	}
+	for r := 0; r < sc.s; r++ {
+		rhs := y0[r]
+		if !input {
+			rhs = p.score * y0[r]
+		}
+		viol(&cert.PrimalError, math.Abs(sumY[r]-p.sOut[r]-rhs)/(1+math.Abs(rhs)))
+	}
+	for _, r := range e.rr {
+		switch r.sign {
+		case 0:
+			viol(&cert.PrimalError, math.Abs(sumL-r.rhs))
+		case 1:
+			viol(&cert.PrimalError, sumL-r.rhs)
+		case -1:
+			viol(&cert.PrimalError, r.rhs-sumL)
+		}
+	}
+
+	// Dual: v = -y(inputs) >= 0, u = y(outputs) >= 0, signs of the returns rows.
+	y := p.y
+	v := make([]float64, sc.m)
+	u := make([]float64, sc.s)
+	for i := range v {
+		v[i] = -y[i]
+		viol(&cert.DualError, -v[i])
+	}
+	for r := range u {
+		u[r] = y[sc.m+r]
+		viol(&cert.DualError, -u[r])
+	}
+	w, wObj := 0.0, 0.0
+	for q, r := range e.rr {
+		yc := y[ms+q]
+		w += yc
+		wObj += yc * r.rhs
+		switch r.sign {
+		case 1: // sum + slack = rhs: yc <= 0
+			viol(&cert.DualError, yc)
+		case -1: // sum - slack = rhs: yc >= 0
+			viol(&cert.DualError, -yc)
+		}
+	}
+	vx0, uy0 := dot(v, x0), dot(u, y0)
+	var dualObj float64
+	if input {
+		viol(&cert.DualError, vx0-1) // theta column: 1 - v.x0 >= 0
+		dualObj = uy0 + wObj
+	} else {
+		viol(&cert.DualError, 1-uy0) // phi column: -1 + u.y0 >= 0
+		dualObj = vx0 - wObj
+	}
+	for _, j := range checkSet {
+		viol(&cert.DualError, dot(u, sc.y[j])-dot(v, sc.x[j])+w)
+	}
+	cert.Gap = math.Abs(p.score-dualObj) / (1 + math.Abs(p.score))
+	cert.Verified = cert.PrimalError <= certTolerance && cert.DualError <= certTolerance && cert.Gap <= certTolerance
+	return cert
+}
+
+// certifyInfeasible checks a Farkas certificate y (y'a_j <= 0 for every
+// allowed unit column and the score column, y'b > 0), which proves that no
+// reference combination exists.
+func (e *envelope) certifyInfeasible(y, x0, y0 []float64, checkSet []int) Certificate {
+	sc := e.sc
+	ms := sc.m + sc.s
+	cert := Certificate{Tolerance: certTolerance, Checked: len(checkSet)}
+	colDot := func(x, yy []float64) float64 {
+		t := dot(y[:sc.m], x) + dot(y[sc.m:ms], yy)
+		for q := range e.rr {
+			t += y[ms+q]
+		}
+		return t
+	}
+	for _, j := range checkSet {
+		if d := colDot(sc.x[j], sc.y[j]); d > cert.DualError {
+			cert.DualError = d
+		}
+	}
+	// Slack columns: +e_i for inputs, -e_r for outputs, sign for returns rows.
+	for i := 0; i < sc.m; i++ {
+		cert.DualError = math.Max(cert.DualError, y[i])
+	}
+	for r := 0; r < sc.s; r++ {
+		cert.DualError = math.Max(cert.DualError, -y[sc.m+r])
+	}
+	for q, r := range e.rr {
+		if r.sign != 0 {
+			cert.DualError = math.Max(cert.DualError, r.sign*y[ms+q])
+		}
+	}
+	// Score column and right-hand side.
+	var score, yb float64
+	if e.model.Orientation == Input {
+		score = -dot(y[:sc.m], x0)
+		yb = dot(y[sc.m:ms], y0)
+	} else {
+		score = -dot(y[sc.m:ms], y0)
+		yb = dot(y[:sc.m], x0)
+	}
+	cert.DualError = math.Max(cert.DualError, score)
+	for q, r := range e.rr {
+		yb += y[ms+q] * r.rhs
+	}
+	// y'b must be clearly positive relative to the violations.
+	cert.Gap = yb
+	cert.Verified = yb > 0 && cert.DualError <= certTolerance*math.Max(1, yb)
+	return cert
+}
+
+func dot(a, b []float64) float64 {
+	t := 0.0
+	for i := range a {
+		t += a[i] * b[i]
+	}
+	return t
+}

@@ -1,0 +1,360 @@
+package dea
+
+import (
+	"errors"
+	"fmt"
+	"math"
+
+	"peerlens/engine/lp"
+)
+
+// ErrNoFiniteScore means the envelopment program of a point has no feasible
+// solution: no combination of the reference units can produce its outputs
+// (input orientation) or use no more than its inputs (output orientation)
+// under the returns to scale asked for. It happens for super-efficiency under
+// variable returns (Seiford & Zhu 1999, JORS 50).
+var ErrNoFiniteScore = errors.New("dea: no finite score exists for this unit against this reference set")
+
+// scaled holds the data divided by each measure's mean, unit by unit.
+type scaled struct {
+	n, m, s int
+	x, y    [][]float64 // x[unit][input], y[unit][output]
+	mx, my  []float64   // the divisors (the measures' means, 1 where the mean is 0)
+}
+
+func scaleData(d *Data) *scaled {
+	n := len(d.X)
+	sc := &scaled{n: n}
+	if n > 0 {
+		sc.m, sc.s = len(d.X[0]), len(d.Y[0])
+	}
+	sc.mx = means(d.X, sc.m)
+	sc.my = means(d.Y, sc.s)
+	sc.x = make([][]float64, n)
+	sc.y = make([][]float64, n)
+	for j := 0; j < n; j++ {
+		sc.x[j] = divide(d.X[j], sc.mx)
+		sc.y[j] = divide(d.Y[j], sc.my)
+	}
+	return sc
+}
+
+func means(rows [][]float64, k int) []float64 {
+	mu := make([]float64, k)
+	for _, r := range rows {
+		for i, v := range r {
+			mu[i] += math.Abs(v)
+		}
+	}
+	for i := range mu {
+		mu[i] /= float64(max(len(rows), 1))
+		if mu[i] == 0 || math.IsNaN(mu[i]) || math.IsInf(mu[i], 0) {
+			mu[i] = 1
+		}
+	}
+	return mu
+}
+
+func divide(v, by []float64) []float64 {
+	out := make([]float64, len(v))
+	for i := range v {
+		out[i] = v[i] / by[i]
+	}
+	return out
+}
+
+// returnsRow is one constraint on sum(lambda): sum(lambda) + sign*slack = rhs
+// (sign 0: an equality with no slack column).
+type returnsRow struct {
+	rhs  float64
+	sign float64
+}
+
+func returnsRows(m Model) []returnsRow {
+	switch m.Returns {
+	case Variable:
+		return []returnsRow{{1, 0}}
+	case NonIncreasing:
+		return []returnsRow{{1, 1}}
+	case NonDecreasing:
+		return []returnsRow{{1, -1}}
+	case Bounded:
+		var rows []returnsRow
+		if m.Lower > 0 {
+			rows = append(rows, returnsRow{m.Lower, -1})
+		}
+		if m.Upper > 0 && !math.IsInf(m.Upper, 1) {
+			rows = append(rows, returnsRow{m.Upper, 1})
+		}
+		return rows
+	}
+	return nil
+}
+
+// envelope is the envelopment program of one model against one reference
+// set, laid out once and reused for many evaluated points. Columns:
+//
+//	0            the score variable (theta, or phi in output orientation)
+//	1..K         lambda for each reference unit
+//	K+1          lambda for the evaluated point itself when it is not in the
+//	             reference set (a zero column otherwise)
+//	then         m input slacks, s output slacks, one slack per returns row
+//	             that has one.
+//
+// Rows: m inputs, s outputs, then the returns rows.
+type envelope struct {
+	model  Model
+	sc     *scaled
+	ref    []int // reference units
+	inRef  map[int]int
+	rr     []returnsRow
+	rows   int
+	cols   int
+	prob   lp.Problem
+	extra  int // column index of the extra (self) lambda
+	slack0 int // first slack column
+}
+
+func newEnvelope(sc *scaled, ref []int, m Model) *envelope {
+	e := &envelope{model: m, sc: sc, ref: ref, rr: returnsRows(m)}
+	e.inRef = make(map[int]int, len(ref))
+	for k, j := range ref {
+		e.inRef[j] = k
+	}
+	ms := sc.m + sc.s
+	e.rows = ms + len(e.rr)
+	nrs := 0
+	for _, r := range e.rr {
+		if r.sign != 0 {
+			nrs++
+		}
+	}
+	K := len(ref)
+	e.extra = K + 1
+	e.slack0 = K + 2
+	e.cols = K + 2 + ms + nrs
+	a := make([]float64, e.rows*e.cols)
+	for k, j := range ref {
+		e.fillLambda(a[(1+k)*e.rows:(2+k)*e.rows], sc.x[j], sc.y[j])
+	}
+	for i := 0; i < sc.m; i++ {
+		a[(e.slack0+i)*e.rows+i] = 1
+	}
+	for r := 0; r < sc.s; r++ {
+		a[(e.slack0+sc.m+r)*e.rows+sc.m+r] = -1
+	}
+	c := e.slack0 + ms
+	for q, r := range e.rr {
+		if r.sign != 0 {
+			a[c*e.rows+ms+q] = r.sign
+			c++
+		}
+	}
+	e.prob = lp.Problem{Rows: e.rows, A: a, B: make([]float64, e.rows), C: make([]float64, e.cols)}
+	return e
+}
+
+func (e *envelope) fillLambda(col, x, y []float64) {
+	copy(col, x)
+	copy(col[e.sc.m:], y)
+	for q := range e.rr {
+		col[e.sc.m+e.sc.s+q] = 1
+	}
+}
+
+// clone gives a copy that can be used from another goroutine.
+func (e *envelope) clone() *envelope {
+	c := *e
+	c.prob.A = append([]float64(nil), e.prob.A...)
+	c.prob.B = make([]float64, e.rows)
+	c.prob.C = make([]float64, e.cols)
+	return &c
+}
+
+// point is the solution of one point's envelopment program, in scaled data.
+type point struct {
+	score  float64   // theta or phi
+	lambda []float64 // per reference unit
+	self   float64   // lambda of the extra (self) column
+	sIn    []float64 // input slacks
+	sOut   []float64 // output slacks
+	y      []float64 // duals of the radial stage, one per row
+	iter   int
+	phase1 bool
+	basis  []int
+}
+
+// solve evaluates the point (x, y) in scaled data. self is the point's own
+// unit index when it is a unit of the data (-1 otherwise); a unit that is not
+// in the reference set gets the extra column, and any unit that is present
+// gives the solver a feasible start (score 1, its own lambda 1). With
+// exclude, the point's own unit is left out of the reference set
+// (super-efficiency).
+func (e *envelope) solve(x, y []float64, self int, exclude, second bool) (*point, error) {
+	sc, rows := e.sc, e.rows
+	a, b, c := e.prob.A, e.prob.B, e.prob.C
+	input := e.model.Orientation == Input
+	// Score column and right-hand side.
+	col0 := a[0:rows]
+	for i := range col0 {
+		col0[i] = 0
+	}
+	for i := range b {
+		b[i] = 0
+	}
+	for i := range c {
+		c[i] = 0
+	}
+	if input {
+		for i := 0; i < sc.m; i++ {
+			col0[i] = -x[i]
+		}
+		copy(b[sc.m:], y)
+		c[0] = 1
+	} else {
+		for r := 0; r < sc.s; r++ {
+			col0[sc.m+r] = -y[r]
+		}
+		copy(b, x)
+		c[0] = -1
+	}
+	for q, r := range e.rr {
+		b[sc.m+sc.s+q] = r.rhs
+	}
+	extra := a[e.extra*rows : (e.extra+1)*rows]
+	selfCol := -1
+	k, inRef := e.inRef[self]
+	if self < 0 {
+		inRef = false
+	}
+	switch {
+	case exclude && inRef:
+		// Hide the unit's own column: zero it and restore it afterwards.
+		own := a[(1+k)*rows : (2+k)*rows]
+		saved := append([]float64(nil), own...)
+		for i := range own {
+			own[i] = 0
+		}
+		defer copy(own, saved)
+		zero(extra)
+	case exclude || self < 0:
+		zero(extra)
+	case inRef:
+		zero(extra)
+		selfCol = 1 + k
+	default:
+		e.fillLambda(extra, sc.x[self], sc.y[self])
+		selfCol = e.extra
+	}
+	var opt lp.Options
+	if selfCol >= 0 {
+		opt.Basis = e.selfBasis(x, y, selfCol)
+	}
+	sol, err := lp.Solve(&e.prob, &opt)
+	if err != nil {
+		if errors.Is(err, lp.ErrInfeasible) {
+			return &point{y: sol.Y}, fmt.Errorf("%w (%v)", ErrNoFiniteScore, err)
+		}
+		return nil, err
+	}
+	p := &point{score: sol.X[0], y: sol.Y, iter: sol.Iter, phase1: sol.Phase1, basis: sol.Basis}
+	if second {
+		if sol2, err := e.secondStage(sol); err == nil {
+			p.iter += sol2.Iter
+			sol = sol2
+		} else {
+			return nil, fmt.Errorf("second stage: %w", err)
+		}
+	}
+	K := len(e.ref)
+	p.lambda = append([]float64(nil), sol.X[1:1+K]...)
+	p.self = sol.X[e.extra]
+	p.sIn = append([]float64(nil), sol.X[e.slack0:e.slack0+sc.m]...)
+	p.sOut = append([]float64(nil), sol.X[e.slack0+sc.m:e.slack0+sc.m+sc.s]...)
+	return p, nil
+}
+
+func zero(v []float64) {
+	for i := range v {
+		v[i] = 0
+	}
+}
+
+// selfBasis is the feasible starting basis at score 1 with the unit's own
+// lambda 1: the score column, the unit's lambda, and every slack except one
+// input slack (and one output slack under constant returns; one input and one
+// output slack when the program has no returns row, and the mirror image in
+// output orientation). The solver checks it and falls back to phase 1 when it
+// is singular or infeasible.
+func (e *envelope) selfBasis(x, y []float64, selfCol int) []int {
+	sc := e.sc
+	iStar, rStar := argmax(x), argmax(y)
+	if iStar < 0 || rStar < 0 {
+		return nil
+	}
+	basis := []int{0, selfCol}
+	input := e.model.Orientation == Input
+	noRow := len(e.rr) == 0
+	for i := 0; i < sc.m; i++ {
+		if i == iStar && (input || noRow) {
+			continue
+		}
+		basis = append(basis, e.slack0+i)
+	}
+	for r := 0; r < sc.s; r++ {
+		if r == rStar && (!input || noRow) {
+			continue
+		}
+		basis = append(basis, e.slack0+sc.m+r)
+	}
+	// With two returns rows (bounds on both sides) the upper row's slack is basic.
+	if len(e.rr) == 2 {
+		basis = append(basis, e.cols-1)
+	}
+	if len(basis) != e.rows {
+		return nil
+	}
+	return basis
+}
+
+func argmax(v []float64) int {
+	k, best := -1, 0.0
+	for i, x := range v {
+		if x > best {
+			k, best = i, x
+		}
+	}
+	return k
+}
+
+// secondStage fixes the radial score at its optimum and maximises the sum of
+// the slacks (in scaled data, so each slack is weighted by 1 / its measure's
+// mean). It adds one row, score + t = score* (input) or score - t = score*
+// (output), whose slack t starts basic at zero next to the optimal basis.
+func (e *envelope) secondStage(first *lp.Solution) (*lp.Solution, error) {
+	rows, cols := e.rows+1, e.cols+1
+	a := make([]float64, rows*cols)
+	for j := 0; j < e.cols; j++ {
+		copy(a[j*rows:j*rows+e.rows], e.prob.A[j*e.rows:(j+1)*e.rows])
+	}
+	a[0*rows+e.rows] = 1
+	if e.model.Orientation == Input {
+		a[e.cols*rows+e.rows] = 1
+	} else {
+		a[e.cols*rows+e.rows] = -1
+	}
+	b := append(append([]float64(nil), e.prob.B...), first.X[0])
+	c := make([]float64, cols)
+	ms := e.sc.m + e.sc.s
+	for j := e.slack0; j < e.slack0+ms; j++ {
+		c[j] = -1
+	}
+	basis := append(append([]int(nil), first.Basis...), e.cols)
+	for _, j := range basis {
+		if j < 0 {
+			basis = nil // a redundant row: let phase 1 find a basis
+			break
+		}
+	}
+	return lp.Solve(&lp.Problem{Rows: rows, A: a, B: b, C: c}, &lp.Options{Basis: basis})
+}

@@ -1,0 +1,480 @@
+package dea
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"math"
+	"runtime"
+	"sync"
+)
+
+// Tolerances for classifying results (on scores, and on slacks in data
+// scaled by each measure's mean).
+const (
+	scoreTol  = 1e-9
+	slackTol  = 1e-8
+	lambdaTol = 1e-9
+)
+
+// Options control a run beyond the model.
+type Options struct {
+	// Units, when not nil, are the only units evaluated (against all units of
+	// the data); Result.Units then holds them in this order. Splitting units
+	// over several workers uses this.
+	Units []int
+	// Frontier, when not nil, is a candidate set computed earlier by
+	// Frontier for the same data; it saves each worker from computing it.
+	Frontier []int
+	// Progress is called now and then with the number of units done.
+	Progress func(done, total int)
+	// Workers is the number of goroutines (0: GOMAXPROCS).
+	Workers int
+}
+
+// Run evaluates every unit of d under model m. It checks the data first and
+// returns an error for data no model can use (shapes, NaN, negative values);
+// a unit whose program fails gets Status NotSolved and a Problem, and the run
+// goes on.
+func Run(ctx context.Context, d *Data, m Model, progress func(done, total int)) (*Result, error) {
+	return RunWith(ctx, d, m, Options{Progress: progress})
+}
+
+// CheckData reports data that no model can use.
+func CheckData(d *Data) error {
+	n := len(d.X)
+	if n == 0 {
+		return errors.New("dea: no units")
+	}
+	if len(d.Y) != n {
+		return fmt.Errorf("dea: %d units have inputs but %d have outputs", n, len(d.Y))
+	}
+	if len(d.Units) != 0 && len(d.Units) != n {
+		return fmt.Errorf("dea: %d unit names for %d units", len(d.Units), n)
+	}
+	m, s := len(d.X[0]), len(d.Y[0])
+	if m == 0 || s == 0 {
+		return errors.New("dea: a model needs at least one input and one output")
+	}
+	for j := 0; j < n; j++ {
+		if len(d.X[j]) != m || len(d.Y[j]) != s {
+			return fmt.Errorf("dea: unit %s has %d inputs and %d outputs, expected %d and %d", d.name(j), len(d.X[j]), len(d.Y[j]), m, s)
+		}
+		for i, v := range d.X[j] {
+			if err := checkValue(v); err != nil {
+				return fmt.Errorf("dea: unit %s, input %s: %w", d.name(j), d.measure(d.InputNames, i, "input"), err)
+			}
+		}
+		for r, v := range d.Y[j] {
+			if err := checkValue(v); err != nil {
+				return fmt.Errorf("dea: unit %s, output %s: %w", d.name(j), d.measure(d.OutputNames, r, "output"), err)
+			}
+		}
+	}
+	return nil
+}
+
+func checkValue(v float64) error {
+	switch {
+	case math.IsNaN(v):
+		return errors.New("value is missing")
+	case math.IsInf(v, 0):
+		return errors.New("value is infinite")
+	case v < 0:
+		return fmt.Errorf("value %g is negative; radial models need values of zero or more", v)
+	}
+	return nil
+}
+
+func (d *Data) name(j int) string {
+	if j < len(d.Units) {
+		return fmt.Sprintf("%q", d.Units[j])
+	}
+	return fmt.Sprintf("%d", j+1)
+}
+
+func (d *Data) measure(names []string, i int, kind string) string {
+	if i < len(names) {
+		return fmt.Sprintf("%q", names[i])
+	}
+	return fmt.Sprintf("%s %d", kind, i+1)
+}
+
+// RunWith is Run with options.
+func RunWith(ctx context.Context, d *Data, m Model, opt Options) (*Result, error) {
+	if err := m.Validate(); err != nil {
+		return nil, err
+	}
+	if err := CheckData(d); err != nil {
+		return nil, err
+	}
+	sc := scaleData(d)
+	cand := opt.Frontier
+	if cand == nil {
+		var err error
+		if cand, err = frontier(ctx, sc); err != nil {
+			return nil, err
+		}
+	}
+	units := opt.Units
+	if units == nil {
+		units = make([]int, sc.n)
+		for j := range units {
+			units[j] = j
+		}
+	}
+	for _, j := range units {
+		if j < 0 || j >= sc.n {
+			return nil, fmt.Errorf("dea: unit index %d out of range", j)
+		}
+	}
+	ev := newEvaluator(sc, d, m, cand)
+	res := &Result{Model: m, Units: make([]UnitResult, len(units)), Frontier: cand}
+	workers := opt.Workers
+	if workers <= 0 {
+		workers = runtime.GOMAXPROCS(0)
+	}
+	workers = min(workers, max(1, len(units)/16))
+	var (
+		mu   sync.Mutex
+		done int
+		next int
+		wg   sync.WaitGroup
+	)
+	step := max(1, len(units)/200)
+	report := func(k int) {
+		if opt.Progress == nil {
+			return
+		}
+		mu.Lock()
+		done += k
+		dn := done
+		mu.Unlock()
+		if dn%step < k || dn == len(units) {
+			opt.Progress(dn, len(units))
+		}
+	}
+	take := func() (int, int) {
+		mu.Lock()
+		defer mu.Unlock()
+		lo := next
+		next = min(next+8, len(units))
+		return lo, next
+	}
+	var firstErr error
+	work := func(ev *evaluator) {
+		defer wg.Done()
+		for {
+			lo, hi := take()
+			if lo >= hi {
+				return
+			}
+			for k := lo; k < hi; k++ {
+				if err := ctx.Err(); err != nil {
+					mu.Lock()
+					firstErr = err
+					mu.Unlock()
+					return
+				}
+				res.Units[k] = ev.unit(units[k])
+			}
+			report(hi - lo)
+		}
+	}
+	wg.Add(workers)
+	for w := 0; w < workers; w++ {
+		e := ev
+		if w > 0 {
+			e = ev.clone()
+		}
+		if workers == 1 {
+			work(e)
+		} else {
+			go work(e)
+		}
+	}
+	wg.Wait()
+	if firstErr != nil {
+		return nil, firstErr
+	}
+	countPeers(res)
+	return res, nil
+}
+
+// countPeers sets PeerCount: how many other evaluated units name each unit.
+func countPeers(res *Result) {
+	pos := make(map[int]int, len(res.Units))
+	for k, u := range res.Units {
+		pos[u.Index] = k
+	}
+	for _, u := range res.Units {
+		for _, p := range u.Peers {
+			if p.Index == u.Index {
+				continue
+			}
+			if k, ok := pos[p.Index]; ok {
+				res.Units[k].PeerCount++
+			}
+		}
+	}
+}
+
+// evaluator holds the envelopment programs a run needs.
+type evaluator struct {
+	sc   *scaled
+	d    *Data
+	m    Model
+	cand []int
+	main *envelope
+	crs  *envelope // scale detail (nil when not asked)
+	vrs  *envelope
+	nirs *envelope
+	all  []int // every unit, for full dual checks on small studies
+}
+
+func newEvaluator(sc *scaled, d *Data, m Model, cand []int) *evaluator {
+	ev := &evaluator{sc: sc, d: d, m: m, cand: cand}
+	ev.main = newEnvelope(sc, cand, m)
+	if m.ScaleDetail {
+		radial := func(r Returns) *envelope {
+			mm := Model{Returns: r, Orientation: m.Orientation}
+			return newEnvelope(sc, cand, mm)
+		}
+		ev.crs, ev.vrs, ev.nirs = radial(Constant), radial(Variable), radial(NonIncreasing)
+	}
+	if sc.n <= fullCheckLimit {
+		ev.all = make([]int, sc.n)
+		for j := range ev.all {
+			ev.all[j] = j
+		}
+	}
+	return ev
+}
+
+func (ev *evaluator) clone() *evaluator {
+	c := *ev
+	c.main = ev.main.clone()
+	if ev.crs != nil {
+		c.crs, c.vrs, c.nirs = ev.crs.clone(), ev.vrs.clone(), ev.nirs.clone()
+	}
+	return &c
+}
+
+// checkSet is the set of units a certificate's dual check covers.
+func (ev *evaluator) checkSet(e *envelope, self int, exclude bool) []int {
+	base := e.ref
+	if ev.all != nil {
+		base = ev.all
+	}
+	if !exclude && (self < 0 || ev.all != nil) {
+		return base
+	}
+	out := make([]int, 0, len(base)+1)
+	for _, j := range base {
+		if !(exclude && j == self) {
+			out = append(out, j)
+		}
+	}
+	if !exclude && self >= 0 {
+		if _, in := e.inRef[self]; !in {
+			out = append(out, self)
+		}
+	}
+	return out
+}
+
+// radialScore reports a unit's score (theta, or 1/phi) under envelope e.
+func (ev *evaluator) radialScore(e *envelope, o int) (float64, error) {
+	p, err := e.solve(ev.sc.x[o], ev.sc.y[o], o, false, false)
+	if err != nil {
+		return math.NaN(), err
+	}
+	return scoreOf(e.model, p.score), nil
+}
+
+func scoreOf(m Model, v float64) float64 {
+	if m.Orientation == Output {
+		return 1 / v
+	}
+	return v
+}
+
+// unit evaluates unit o completely.
+func (ev *evaluator) unit(o int) UnitResult {
+	sc, d, m := ev.sc, ev.d, ev.m
+	u := UnitResult{Index: o, Name: unitName(d, o), Peers: []Peer{}}
+	e := ev.main
+	x0, y0 := sc.x[o], sc.y[o]
+	p, err := e.solve(x0, y0, o, false, m.SecondStage)
+	if err == nil && p.self > lambdaTol {
+		if _, in := e.inRef[o]; !in {
+			// The unit is not a candidate, so it is dominated by candidates and
+			// never needed in its own combination: solve without it for clean peers.
+			if q, err2 := e.solve(x0, y0, o, true, m.SecondStage); err2 == nil {
+				p = q
+			}
+		}
+	}
+	if err != nil {
+		u.Status = NotSolved
+		u.Score = math.NaN()
+		u.Problem = plainProblem(err, m)
+		return u
+	}
+	u.Score = scoreOf(m, p.score)
+	if m.Orientation == Output {
+		u.Expansion = p.score
+	}
+	u.Cert = e.certify(p, x0, y0, o, ev.checkSet(e, o, false))
+	ev.fill(&u, e, p, o)
+	if m.ScaleDetail {
+		ev.scale(&u, o)
+	}
+	if m.Super {
+		ev.super(&u, o)
+	}
+	return u
+}
+
+func unitName(d *Data, j int) string {
+	if j < len(d.Units) {
+		return d.Units[j]
+	}
+	return fmt.Sprintf("Unit %d", j+1)
+}
+
+func plainProblem(err error, m Model) string {
+	switch {
+	case errors.Is(err, ErrNoFiniteScore):
+		if m.Orientation == Input {
+			return "no combination of units produces this unit's outputs under the chosen returns to scale"
+		}
+		return "no combination of units uses no more than this unit's inputs under the chosen returns to scale"
+	default:
+		return "the linear program could not be solved reliably: " + err.Error()
+	}
+}
+
+// fill sets peers, targets, weights and status from a solved point.
+func (ev *evaluator) fill(u *UnitResult, e *envelope, p *point, o int) {
+	sc, d, m := ev.sc, ev.d, ev.m
+	for k, j := range e.ref {
+		if l := p.lambda[k]; l > lambdaTol {
+			u.Peers = append(u.Peers, Peer{Index: j, Name: unitName(d, j), Lambda: l})
+		}
+	}
+	if p.self > lambdaTol {
+		u.Peers = append(u.Peers, Peer{Index: o, Name: unitName(d, o), Lambda: p.self})
+	}
+	input := m.Orientation == Input
+	slack := false
+	u.Inputs = make([]Target, sc.m)
+	for i := range u.Inputs {
+		v := d.X[o][i]
+		t := Target{Measure: nameAt(d.InputNames, i, "Input"), Value: v}
+		if input {
+			t.Radial = (1 - p.score) * v
+		}
+		if p.sIn[i] > slackTol {
+			t.Slack = p.sIn[i] * sc.mx[i]
+			slack = true
+		}
+		t.Target = v - t.Radial - t.Slack
+		t.Change = change(v, t.Target)
+		u.Inputs[i] = t
+	}
+	u.Outputs = make([]Target, sc.s)
+	for r := range u.Outputs {
+		v := d.Y[o][r]
+		t := Target{Measure: nameAt(d.OutputNames, r, "Output"), Value: v}
+		if !input {
+			t.Radial = (p.score - 1) * v
+		}
+		if p.sOut[r] > slackTol {
+			t.Slack = p.sOut[r] * sc.my[r]
+			slack = true
+		}
+		t.Target = v + t.Radial + t.Slack
+		t.Change = change(v, t.Target)
+		u.Outputs[r] = t
+	}
+	// Weights in the data's own units.
+	ms := sc.m + sc.s
+	u.InputW = make([]Weight, sc.m)
+	vx := 0.0
+	for i := range u.InputW {
+		w := -p.y[i] / sc.mx[i]
+		u.InputW[i] = Weight{Measure: u.Inputs[i].Measure, Weight: w}
+		vx += w * d.X[o][i]
+	}
+	u.OutputW = make([]Weight, sc.s)
+	uy := 0.0
+	for r := range u.OutputW {
+		w := p.y[sc.m+r] / sc.my[r]
+		u.OutputW[r] = Weight{Measure: u.Outputs[r].Measure, Weight: w}
+		uy += w * d.Y[o][r]
+	}
+	for i := range u.InputW {
+		if vx > 0 {
+			u.InputW[i].Share = u.InputW[i].Weight * d.X[o][i] / vx
+		}
+	}
+	for r := range u.OutputW {
+		if uy > 0 {
+			u.OutputW[r].Share = u.OutputW[r].Weight * d.Y[o][r] / uy
+		}
+	}
+	for q := range e.rr {
+		u.Free += p.y[ms+q]
+	}
+	switch {
+	case u.Score < 1-scoreTol:
+		u.Status = Inefficient
+	case slack && m.SecondStage:
+		u.Status = WeaklyEfficient
+	default:
+		u.Status = Efficient
+	}
+}
+
+func nameAt(names []string, i int, kind string) string {
+	if i < len(names) {
+		return names[i]
+	}
+	return fmt.Sprintf("%s %d", kind, i+1)
+}
+
+func change(from, to float64) float64 {
+	if from == 0 {
+		if to == 0 {
+			return 0
+		}
+		return math.NaN()
+	}
+	return (to - from) / from * 100
+}
+
+// scale fills the returns-to-scale detail: the constant, variable and
+// non-increasing scores in the model's orientation, scale efficiency
+// CRS / VRS, and the class by the test of Färe, Grosskopf & Lovell (1994,
+// Production Frontiers): CRS = VRS means constant returns; otherwise the unit
+// operates under decreasing returns when its NIRS score equals its VRS score
+// and under increasing returns when it does not.
+func (ev *evaluator) scale(u *UnitResult, o int) {
+	c, err1 := ev.radialScore(ev.crs, o)
+	v, err2 := ev.radialScore(ev.vrs, o)
+	n, err3 := ev.radialScore(ev.nirs, o)
+	if err1 != nil || err2 != nil || err3 != nil {
+		return
+	}
+	u.ScoreCRS, u.ScoreVRS, u.ScoreNIRS = c, v, n
+	u.ScaleEff = c / v
+	switch {
+	case math.Abs(c-v) <= 1e-7*v:
+		u.ScaleClass = ScaleConstant
+	case math.Abs(n-v) <= 1e-7*v:
+		u.ScaleClass = ScaleDecreasing
+	default:
+		u.ScaleClass = ScaleIncreasing
+	}
+}
