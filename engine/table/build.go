@@ -154,6 +154,7 @@ func (b *builder) build(recs []record) (*Table, error) {
 	var header record
 	if t.HasHeader {
 		header, rows = rows[0], rows[1:]
+		t.HeaderRow = header.num
 	}
 	t.Header = b.names(header, t.HasHeader, width)
 

@@ -64,6 +64,9 @@ var missingMarkers = map[string]string{
 	"#spill!": "the spreadsheet shows #SPILL! (a formula error)",
 }
 
+// maxMarker is the length in bytes of the longest missing marker.
+const maxMarker = 8
+
 // currencySigns are stripped before or after a number; codes are ISO 4217.
 var currencySigns = []string{
 	"US$", "R$", "$", "€", "£", "¥", "₹", "₩", "₽", "₺", "₪", "₫", "₴", "₦", "₱", "฿", "₣",
@@ -96,8 +99,10 @@ func lexNumber(text string) numText {
 	if fast, ok := lexPlain(s); ok {
 		return fast
 	}
-	if why, ok := missingMarkers[strings.ToLower(s)]; ok {
-		return numText{kind: kindMissing, why: why}
+	if len(s) <= maxMarker {
+		if why, ok := missingMarkers[strings.ToLower(s)]; ok {
+			return numText{kind: kindMissing, why: why}
+		}
 	}
 	var n numText
 	s = n.stripAround(s)
@@ -199,7 +204,7 @@ func (n *numText) stripBrackets(s string) string {
 }
 
 func (n *numText) stripCurrencyPrefix(s string) string {
-	if n.currency != "" {
+	if n.currency != "" || s == "" || s[0] >= '0' && s[0] <= '9' {
 		return s
 	}
 	for _, c := range currencySigns {
@@ -216,7 +221,7 @@ func (n *numText) stripCurrencyPrefix(s string) string {
 }
 
 func (n *numText) stripCurrencySuffix(s string) string {
-	if n.currency != "" {
+	if n.currency != "" || s == "" || s[len(s)-1] >= '0' && s[len(s)-1] <= '9' {
 		return s
 	}
 	for _, c := range currencySigns {
@@ -259,8 +264,10 @@ func sepClass(r rune) byte {
 // classify checks the mantissa's digits and separators and sets n.mark. It
 // returns a reason when the mantissa is not a number.
 func (n *numText) classify() string {
-	var runs []string // digit runs between separators
-	var seps []byte   // separator classes, len(runs)-1 of them
+	var runsBuf [8]string
+	var sepsBuf [8]byte
+	runs := runsBuf[:0] // digit runs between separators
+	seps := sepsBuf[:0] // separator classes, len(runs)-1 of them
 	start := 0
 	for i, r := range n.mant {
 		switch {
@@ -389,25 +396,25 @@ func (n *numText) decimalMark(comma bool) byte {
 // separators are dropped and the decimal mark becomes '.'.
 func (n *numText) value(comma bool) (float64, error) {
 	mark := n.decimalMark(comma)
-	var b strings.Builder
-	b.Grow(len(n.mant) + len(n.exp) + 2)
+	var buf [64]byte
+	b := buf[:0]
 	if n.neg || n.bracket {
-		b.WriteByte('-')
+		b = append(b, '-')
 	}
 	for i := 0; i < len(n.mant); i++ {
 		c := n.mant[i]
 		switch {
 		case c >= '0' && c <= '9':
-			b.WriteByte(c)
+			b = append(b, c)
 		case c == mark:
-			b.WriteByte('.')
+			b = append(b, '.')
 		}
 	}
 	if n.exp != "" {
-		b.WriteByte('e')
-		b.WriteString(n.exp)
+		b = append(b, 'e')
+		b = append(b, n.exp...)
 	}
-	v, err := strconv.ParseFloat(b.String(), 64)
+	v, err := strconv.ParseFloat(string(b), 64)
 	if err != nil || math.IsInf(v, 0) {
 		return math.NaN(), fmt.Errorf("%w: too large to hold", ErrNotNumber)
 	}

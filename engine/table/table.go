@@ -78,6 +78,7 @@ type Column struct {
 type Table struct {
 	Delimiter  rune // '\t', ';' or ','; 0 when the cells came from FromRecords
 	HasHeader  bool
+	HeaderRow  int      // record number of the header row, 0 when there is none
 	Header     []string // one name per column; invented ("Column 3") when there is no header
 	Rows       []Row    // data rows; blank rows are left out here and reported in Problems
 	Columns    []Column
