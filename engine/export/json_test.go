@@ -1,0 +1,124 @@
+package export
+
+import (
+	"encoding/json"
+	"math"
+	"reflect"
+	"strings"
+	"testing"
+
+	"peerlens/engine/dea"
+)
+
+type inner struct {
+	A int    `json:"a"`
+	B string `json:"b,omitempty"`
+}
+
+type outer struct {
+	inner
+	A       float64          `json:"a"` // hides inner.A
+	Skip    int              `json:"-"`
+	Plain   string           // no tag
+	hidden  int              //nolint:unused
+	P       *float64         `json:"p"`
+	M       map[string]int   `json:"m"`
+	L       []float64        `json:"l"`
+	Nil     []int            `json:"nil"`
+	Any     any              `json:"any"`
+	Omit    []string         `json:"omit,omitempty"`
+	Raw     json.RawMessage  `json:"raw"`
+	Nested  map[string][]int `json:"nested,omitempty"`
+	Unicode string           `json:"u"`
+}
+
+// For values without NaN, JSON agrees with encoding/json (common practice:
+// the standard library is the reference).
+func TestJSONMatchesStandardLibrary(t *testing.T) {
+	p := 2.5
+	v := outer{inner: inner{A: 7, B: "x"}, A: 1e21, Skip: 3, Plain: "q\"\\\n\t\x01<>&", hidden: 4, P: &p,
+		M: map[string]int{"z": 1, "a": 2}, L: []float64{0, -0.5, 1e-7, 123456789}, Any: []any{1.0, "s", true, nil},
+		Raw: json.RawMessage(`{"k":[1,2]}`), Unicode: "Zürich \u2028 é"}
+	got, err := JSON(v)
+	if err != nil {
+		t.Fatal(err)
+	}
+	want, err := json.Marshal(v)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var g, w any
+	if err := json.Unmarshal(got, &g); err != nil {
+		t.Fatalf("not valid JSON: %v\n%s", err, got)
+	}
+	if err := json.Unmarshal(want, &w); err != nil {
+		t.Fatal(err)
+	}
+	if !reflect.DeepEqual(g, w) {
+		t.Errorf("JSON = %s\nencoding/json = %s", got, want)
+	}
+}
+
+func TestJSONNonFiniteIsNull(t *testing.T) {
+	r := dea.Result{Units: []dea.UnitResult{{Name: "A", Score: math.NaN(),
+		Inputs: []dea.Target{{Measure: "Staff", Value: 0, Change: math.NaN()}, {Measure: "Budget", Change: math.Inf(1)}}}}}
+	if _, err := json.Marshal(r); err == nil {
+		t.Fatal("encoding/json accepted NaN; this encoder is no longer needed")
+	}
+	got, err := JSON(r)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var back struct {
+		Units []struct {
+			Score  *float64 `json:"score"`
+			Inputs []struct {
+				Change *float64 `json:"changePercent"`
+			} `json:"inputs"`
+		} `json:"units"`
+	}
+	if err := json.Unmarshal(got, &back); err != nil {
+		t.Fatalf("not valid JSON: %v\n%s", err, got)
+	}
+	u := back.Units[0]
+	if u.Score != nil || u.Inputs[0].Change != nil || u.Inputs[1].Change != nil {
+		t.Errorf("non-finite numbers not null: %s", got)
+	}
+	if strings.Contains(string(got), "expansion") {
+		t.Errorf("omitempty field written: %s", got)
+	}
+}
+
+func TestJSONInvalidUTF8AndUnsupported(t *testing.T) {
+	got, err := JSON("a\xffb")
+	if err != nil || string(got) != `"a\ufffdb"` {
+		t.Errorf("JSON(invalid UTF-8) = %s, %v", got, err)
+	}
+	if _, err := JSON(make(chan int)); err == nil {
+		t.Error("JSON(chan) succeeded")
+	}
+	if _, err := JSON(map[int]int{1: 2}); err == nil {
+		t.Error("JSON(map[int]int) succeeded")
+	}
+}
+
+func FuzzJSONString(f *testing.F) {
+	for _, s := range []string{"", "plain", "\"quoted\"", "\x00\x1f", "\u2028", "\xff\xfe", "é€𝄞"} {
+		f.Add(s)
+	}
+	f.Fuzz(func(t *testing.T, s string) {
+		got, err := JSON(s)
+		if err != nil {
+			t.Fatal(err)
+		}
+		want, _ := json.Marshal(s)
+		var g, w string
+		if err := json.Unmarshal(got, &g); err != nil {
+			t.Fatalf("JSON(%q) = %s: %v", s, got, err)
+		}
+		json.Unmarshal(want, &w)
+		if g != w {
+			t.Errorf("JSON(%q) reads back %q, encoding/json gives %q", s, g, w)
+		}
+	})
+}
