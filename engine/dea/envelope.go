@@ -246,7 +246,7 @@ func (e *envelope) solve(x, y []float64, self int, exclude, second bool) (*point
 		e.fillLambda(extra, sc.x[self], sc.y[self])
 		selfCol = e.extra
 	}
-	var opt lp.Options
+	opt := lp.Options{NoScale: true, Checked: true}
 	if selfCol >= 0 {
 		opt.Basis = e.selfBasis(x, y, selfCol)
 	}
@@ -356,5 +356,5 @@ func (e *envelope) secondStage(first *lp.Solution) (*lp.Solution, error) {
 			break
 		}
 	}
-	return lp.Solve(&lp.Problem{Rows: rows, A: a, B: b, C: c}, &lp.Options{Basis: basis})
+	return lp.Solve(&lp.Problem{Rows: rows, A: a, B: b, C: c}, &lp.Options{Basis: basis, NoScale: true, Checked: true})
 }

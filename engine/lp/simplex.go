@@ -41,8 +41,12 @@ type Options struct {
 	Basis []int
 	// MaxIter bounds the number of pivots (0: 50*(Rows+Cols)+1000).
 	MaxIter int
-	// NoScale turns off row and column scaling.
+	// NoScale turns off row and column scaling (for callers that scale
+	// their data themselves).
 	NoScale bool
+	// Checked says the caller has made sure every value is finite, which
+	// saves a pass over the matrix.
+	Checked bool
 }
 
 // Solution is an optimal basic solution, or on ErrInfeasible a Farkas
@@ -88,6 +92,8 @@ type solver struct {
 	artSign              []float64
 	iter, bland, maxIter int
 	sinceRefactor        int
+	priceStart           int  // where partial pricing resumes
+	plain                bool // no scaling: columns are used as stored
 }
 
 // Solve solves p. It never panics on malformed input: shapes are checked and
@@ -100,9 +106,11 @@ func Solve(p *Problem, opt *Options) (*Solution, error) {
 	if m <= 0 || len(p.B) != m || len(p.A) != m*n {
 		return nil, fmt.Errorf("%w: %d rows, %d costs, %d right-hand sides, %d matrix entries", ErrShape, m, n, len(p.B), len(p.A))
 	}
-	for _, v := range p.A {
-		if math.IsNaN(v) || math.IsInf(v, 0) {
-			return nil, fmt.Errorf("%w: matrix holds %v", ErrShape, v)
+	if !opt.Checked {
+		for _, v := range p.A {
+			if math.IsNaN(v) || math.IsInf(v, 0) {
+				return nil, fmt.Errorf("%w: matrix holds %v", ErrShape, v)
+			}
 		}
 	}
 	for _, v := range p.B {
@@ -121,6 +129,7 @@ func Solve(p *Problem, opt *Options) (*Solution, error) {
 		sv.maxIter = 50*(m+n) + 1000
 	}
 	sv.scale(!opt.NoScale)
+	sv.plain = opt.NoScale
 	sv.basis = make([]int, m)
 	sv.pos = make([]int, n+m)
 	sv.binv = make([]float64, m*m)
@@ -440,7 +449,6 @@ func (sv *solver) pivot(r, q int) {
 // optimise runs the primal simplex method on the current costs from the
 // current (feasible) basis.
 func (sv *solver) optimise() error {
-	m, n := sv.m, sv.n
 	stall := 0
 	useBland := false
 	lastObj := math.Inf(1)
@@ -454,23 +462,7 @@ func (sv *solver) optimise() error {
 			}
 		}
 		sv.computeDuals()
-		// Pricing.
-		q, best := -1, -tolOpt
-		for j := 0; j < n+m; j++ {
-			if sv.pos[j] >= 0 || sv.barred[j] {
-				continue
-			}
-			if j >= n && sv.cost[j] == 0 {
-				continue
-			}
-			d := sv.cost[j] - sv.dotColumn(j, sv.y)
-			if d < best {
-				q, best = j, d
-				if useBland {
-					break
-				}
-			}
-		}
+		q, _ := sv.price(useBland)
 		if q < 0 {
 			// Optimal by the running inverse: confirm with a fresh one.
 			if sv.sinceRefactor == 0 || checks > 3 {
@@ -507,6 +499,63 @@ func (sv *solver) optimise() error {
 			}
 		}
 	}
+}
+
+// price chooses the entering column, or -1 when no reduced cost is below
+// -tolOpt. Under Bland's rule it is the first such column; otherwise the
+// most negative one within a chunk of columns (partial pricing): scanning
+// starts where the last scan stopped and goes on chunk by chunk until a
+// candidate turns up, so optimality is only declared after a full pass.
+func (sv *solver) price(bland bool) (int, float64) {
+	m, n := sv.m, sv.n
+	total := n + m
+	chunk := total
+	start := 0
+	if !bland {
+		chunk = max(64, total/8)
+		start = sv.priceStart
+	}
+	q, best := -1, -tolOpt
+	a, y := sv.p.A, sv.y
+	plain := sv.plain
+	for scanned := 0; scanned < total; {
+		end := min(start+chunk, total)
+		for j := start; j < end; j++ {
+			if sv.pos[j] >= 0 || sv.barred[j] {
+				continue
+			}
+			var d float64
+			switch {
+			case j >= n:
+				if sv.cost[j] == 0 {
+					continue
+				}
+				d = sv.cost[j] - sv.artSign[j-n]*y[j-n]
+			case plain:
+				col := a[j*m : j*m+m]
+				t := 0.0
+				for i, v := range col {
+					t += v * y[i]
+				}
+				d = sv.cost[j] - t
+			default:
+				d = sv.cost[j] - sv.dotColumn(j, y)
+			}
+			if d < best {
+				q, best = j, d
+				if bland {
+					return q, best
+				}
+			}
+		}
+		scanned += end - start
+		start = end % total
+		if q >= 0 {
+			break
+		}
+	}
+	sv.priceStart = start
+	return q, best
 }
 
 // ratio chooses the leaving row for the entering column held in sv.alpha,

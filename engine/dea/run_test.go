@@ -1,0 +1,106 @@
+package dea
+
+import (
+	"context"
+	"math"
+	"math/rand/v2"
+	"testing"
+)
+
+// cobbDouglas makes n units with m inputs and s outputs near a Cobb-Douglas
+// frontier, with half-normal inefficiency and a share of units exactly on it
+// (a generator of our own; the numbers are invented).
+func cobbDouglas(n, m, s int, seed uint64) *Data {
+	rng := rand.New(rand.NewPCG(seed, 99))
+	d := &Data{X: make([][]float64, n), Y: make([][]float64, n)}
+	for j := 0; j < n; j++ {
+		x := make([]float64, m)
+		prod := 1.0
+		for i := range x {
+			x[i] = 1 + 99*rng.Float64()
+			prod *= math.Pow(x[i], 0.8/float64(m))
+		}
+		eff := 1.0
+		if rng.Float64() > 0.05 {
+			eff = math.Exp(-math.Abs(rng.NormFloat64()) * 0.3)
+		}
+		y := make([]float64, s)
+		// Split output among outputs along a random direction on the frontier.
+		w := make([]float64, s)
+		tot := 0.0
+		for r := range w {
+			w[r] = 0.2 + rng.Float64()
+			tot += w[r] * w[r]
+		}
+		for r := range y {
+			y[r] = prod * eff * w[r] / math.Sqrt(tot)
+		}
+		d.X[j], d.Y[j] = x, y
+	}
+	return d
+}
+
+// The frontier-first run gives the same scores and slack sums as evaluating
+// every unit against all units (see Frontier's doc comment for why).
+func TestFrontierFirstMatchesFull(t *testing.T) {
+	d := cobbDouglas(1500, 3, 2, 1)
+	for _, m := range []Model{
+		{Returns: Variable, Orientation: Input, SecondStage: true},
+		{Returns: Constant, Orientation: Output, SecondStage: true},
+		{Returns: NonIncreasing, Orientation: Input, SecondStage: true},
+	} {
+		ctx := context.Background()
+		fast, err := Run(ctx, d, m, nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if len(fast.Frontier) >= 1500 {
+			t.Fatalf("candidate set not reduced: %d", len(fast.Frontier))
+		}
+		all := make([]int, 1500)
+		for j := range all {
+			all[j] = j
+		}
+		full, err := RunWith(ctx, d, m, Options{Frontier: all})
+		if err != nil {
+			t.Fatal(err)
+		}
+		for k := range fast.Units {
+			a, b := fast.Units[k], full.Units[k]
+			if math.Abs(a.Score-b.Score) > 1e-8 {
+				t.Errorf("%v unit %d: score %v with candidates, %v with all", m.Returns, k, a.Score, b.Score)
+			}
+			if math.Abs(slackSum(a)-slackSum(b)) > 1e-6*(1+slackSum(b)) {
+				t.Errorf("%v unit %d: slack sum %v vs %v", m.Returns, k, slackSum(a), slackSum(b))
+			}
+			if !a.Cert.Verified {
+				t.Errorf("%v unit %d not verified: %+v", m.Returns, k, a.Cert)
+			}
+		}
+	}
+}
+
+func slackSum(u UnitResult) float64 {
+	t := 0.0
+	for _, x := range u.Inputs {
+		t += x.Slack
+	}
+	for _, x := range u.Outputs {
+		t += x.Slack
+	}
+	return t
+}
+
+func benchRun(b *testing.B, n int) {
+	d := cobbDouglas(n, 3, 2, 7)
+	m := Model{Returns: Variable, Orientation: Input, SecondStage: true}
+	b.ResetTimer()
+	for k := 0; k < b.N; k++ {
+		if _, err := RunWith(context.Background(), d, m, Options{Workers: 1}); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+func BenchmarkVRSInput1000(b *testing.B)  { benchRun(b, 1000) }
+func BenchmarkVRSInput10000(b *testing.B) { benchRun(b, 10000) }
