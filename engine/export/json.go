@@ -104,7 +104,20 @@ func (e *encoder) float(f float64) {
 		e.b = append(e.b, "null"...)
 		return
 	}
-	e.b = strconv.AppendFloat(e.b, f, 'g', -1, 64)
+	// As encoding/json (and JavaScript) write numbers: plain decimals, with
+	// an exponent only for very small or very large magnitudes.
+	a, format := math.Abs(f), byte('f')
+	if a != 0 && (a < 1e-6 || a >= 1e21) {
+		format = 'e'
+	}
+	start := len(e.b)
+	e.b = strconv.AppendFloat(e.b, f, format, -1, 64)
+	if format == 'e' { // 1e-07 -> 1e-7
+		if n := len(e.b); n-start >= 4 && e.b[n-4] == 'e' && e.b[n-3] == '-' && e.b[n-2] == '0' {
+			e.b[n-2] = e.b[n-1]
+			e.b = e.b[:n-1]
+		}
+	}
 }
 
 func (e *encoder) array(v reflect.Value) error {
@@ -228,6 +241,9 @@ func listFields(t reflect.Type) []field {
 		}
 	}
 	walk(t, nil, 0)
+	// Fields in the order of their position in the struct, embedded
+	// fields where their struct is embedded, as encoding/json writes them.
+	slices.SortFunc(out, func(a, b field) int { return slices.Compare(a.index, b.index) })
 	return out
 }
 

@@ -1,10 +1,10 @@
 package export
 
 import (
+	"bytes"
 	"encoding/json"
 	"math"
 	"reflect"
-	"strings"
 	"testing"
 
 	"peerlens/engine/dea"
@@ -43,9 +43,15 @@ func TestJSONMatchesStandardLibrary(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	want, err := json.Marshal(v)
-	if err != nil {
+	var buf bytes.Buffer
+	enc := json.NewEncoder(&buf)
+	enc.SetEscapeHTML(false) // JSON does not escape <, > and & (not needed outside HTML)
+	if err := enc.Encode(v); err != nil {
 		t.Fatal(err)
+	}
+	want := bytes.TrimSpace(buf.Bytes())
+	if string(got) != string(want) {
+		t.Errorf("JSON differs from encoding/json:\n got %s\nwant %s", got, want)
 	}
 	var g, w any
 	if err := json.Unmarshal(got, &g); err != nil {
@@ -60,32 +66,45 @@ func TestJSONMatchesStandardLibrary(t *testing.T) {
 }
 
 func TestJSONNonFiniteIsNull(t *testing.T) {
-	r := dea.Result{Units: []dea.UnitResult{{Name: "A", Score: math.NaN(),
-		Inputs: []dea.Target{{Measure: "Staff", Value: 0, Change: math.NaN()}, {Measure: "Budget", Change: math.Inf(1)}}}}}
-	if _, err := json.Marshal(r); err == nil {
-		t.Fatal("encoding/json accepted NaN; this encoder is no longer needed")
+	type target struct {
+		Value  float64 `json:"value"`
+		Change float64 `json:"changePercent"`
 	}
+	type unit struct {
+		Score     float64   `json:"score"`
+		Expansion float64   `json:"expansion,omitempty"`
+		Targets   []target  `json:"targets"`
+		Extra     []float64 `json:"extra"`
+	}
+	v := unit{Score: math.NaN(), Targets: []target{{0, math.NaN()}, {2, math.Inf(1)}, {4, -50}}, Extra: []float64{math.Inf(-1), 1}}
+	if _, err := json.Marshal(v); err == nil {
+		t.Fatal("encoding/json accepted NaN")
+	}
+	got, err := JSON(v)
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := `{"score":null,"targets":[{"value":0,"changePercent":null},{"value":2,"changePercent":null},{"value":4,"changePercent":-50}],"extra":[null,1]}`
+	if string(got) != want {
+		t.Errorf("JSON = %s\nwant %s", got, want)
+	}
+}
+
+// A result keeps the engine's own JSON form (dea types may carry
+// MarshalJSON methods; they are honoured).
+func TestJSONHonoursMarshalers(t *testing.T) {
+	r := dea.Result{Units: []dea.UnitResult{{Name: "A", Score: 0.5, Inputs: []dea.Target{{Measure: "x", Value: 0, Change: math.NaN()}}}}}
 	got, err := JSON(r)
 	if err != nil {
 		t.Fatal(err)
 	}
-	var back struct {
-		Units []struct {
-			Score  *float64 `json:"score"`
-			Inputs []struct {
-				Change *float64 `json:"changePercent"`
-			} `json:"inputs"`
-		} `json:"units"`
-	}
+	var back map[string]any
 	if err := json.Unmarshal(got, &back); err != nil {
-		t.Fatalf("not valid JSON: %v\n%s", err, got)
+		t.Fatalf("%v\n%s", err, got)
 	}
-	u := back.Units[0]
-	if u.Score != nil || u.Inputs[0].Change != nil || u.Inputs[1].Change != nil {
-		t.Errorf("non-finite numbers not null: %s", got)
-	}
-	if strings.Contains(string(got), "expansion") {
-		t.Errorf("omitempty field written: %s", got)
+	u := back["units"].([]any)[0].(map[string]any)
+	if u["score"] != 0.5 || u["inputs"].([]any)[0].(map[string]any)["changePercent"] != nil {
+		t.Errorf("JSON(result) = %s", got)
 	}
 }
 
