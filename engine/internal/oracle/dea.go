@@ -273,9 +273,8 @@ type Slacks struct {
 // ErrInfeasible is returned when an LP that must be feasible is not.
 var ErrInfeasible = errors.New("oracle: LP has no feasible solution")
 
-// SolveSecondStage solves phase 1 (the radial LP) and then phase 2 with the
-// radial value fixed to glpsol's phase-1 value, exactly at first, then
-// relaxed by 1e-9 and 1e-7 if glpsol finds the tighter one infeasible.
+// SolveSecondStage solves phase 1 (the radial LP) and then phase 2 (see
+// SolveSlacks) with glpsol's phase-1 value.
 func SolveSecondStage(ctx context.Context, X, Y [][]float64, o int, s Spec, opt Options) (Slacks, error) {
 	r, err := SolveRadial(ctx, X, Y, o, s, opt)
 	if err != nil {
@@ -284,8 +283,15 @@ func SolveSecondStage(ctx context.Context, X, Y [][]float64, o int, s Spec, opt 
 	if !r.Feasible {
 		return Slacks{}, fmt.Errorf("%w (phase 1 of unit %d)", ErrInfeasible, o)
 	}
+	return SolveSlacks(ctx, X, Y, o, s, r.Value, opt)
+}
+
+// SolveSlacks solves phase 2 with the radial value fixed to radial (a
+// phase-1 value from glpsol): exactly at first, then relaxed by 1e-9 and
+// 1e-7 if glpsol finds the tighter problem infeasible.
+func SolveSlacks(ctx context.Context, X, Y [][]float64, o int, s Spec, radial float64, opt Options) (Slacks, error) {
 	for _, rel := range []float64{0, 1e-9, 1e-7} {
-		p, col, err := SecondStageProblem(X, Y, o, s, r.Value, rel)
+		p, col, err := SecondStageProblem(X, Y, o, s, radial, rel)
 		if err != nil {
 			return Slacks{}, err
 		}
@@ -299,7 +305,7 @@ func SolveSecondStage(ctx context.Context, X, Y [][]float64, o int, s Spec, opt 
 		case Unbounded:
 			return Slacks{}, fmt.Errorf("oracle: second stage of unit %d is unbounded", o)
 		}
-		out := Slacks{Radial: r.Value, Weighted: sol.Objective, Lambda: make([]float64, len(X))}
+		out := Slacks{Radial: radial, Weighted: sol.Objective, Lambda: make([]float64, len(X))}
 		for j, c := range col {
 			if c >= 0 {
 				out.Lambda[j] = sol.Values[c]
@@ -312,5 +318,5 @@ func SolveSecondStage(ctx context.Context, X, Y [][]float64, o int, s Spec, opt 
 		out.Out = append([]float64(nil), sol.Values[k+m:k+m+q]...)
 		return out, nil
 	}
-	return Slacks{}, fmt.Errorf("%w (phase 2 of unit %d, radial value %g fixed)", ErrInfeasible, o, r.Value)
+	return Slacks{}, fmt.Errorf("%w (phase 2 of unit %d, radial value %g fixed)", ErrInfeasible, o, radial)
 }
