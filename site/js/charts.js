@@ -20,8 +20,10 @@ export const COLORS = {
 };
 const FONT = 'system-ui, -apple-system, "Segoe UI", Roboto, sans-serif';
 
-const W = 640;
-const H = 420;
+const FULL_W = 640;
+const FULL_H = 420;
+const SMALL_W = 480;
+const SMALL_H = 340;
 const M = { top: 20, right: 24, bottom: 56, left: 72 };
 
 // niceTicks returns about n round tick values from 0 to at least max.
@@ -46,7 +48,7 @@ function tickText(v) {
 let chartSerial = 0;
 
 // frame makes an SVG root with a white background, axes, grid and labels.
-function frame(label, xMax, yMax, xLabel, yLabel, xTicks = true) {
+function frame(label, xMax, yMax, xLabel, yLabel, xTicks = true, W = FULL_W, H = FULL_H) {
   const id = 'c' + ++chartSerial;
   const root = svg('svg', { xmlns: 'http://www.w3.org/2000/svg', viewBox: `0 0 ${W} ${H}`, width: W, height: H, role: 'img', 'aria-label': label, 'font-family': FONT, 'font-size': 12, class: 'chart-svg' });
   root.append(svg('title', null, label));
@@ -76,7 +78,7 @@ function frame(label, xMax, yMax, xLabel, yLabel, xTicks = true) {
     svg('marker', { id: id + '-arrow', viewBox: '0 0 10 10', refX: 9, refY: 5, markerWidth: 7, markerHeight: 7, orient: 'auto-start-reverse' },
       svg('path', { d: 'M0,0 L10,5 L0,10 z', fill: COLORS.selected }))]);
   root.prepend(defs);
-  return { root, sx, sy, id, pw, ph };
+  return { root, sx, sy, id, pw, ph, W, H };
 }
 
 const isEff = (u) => u.status === 'efficient' || u.status === 'weakly efficient';
@@ -192,24 +194,27 @@ export function histogram(result) {
   let skipped = 0;
   for (const u of result.units) {
     const s = u.score;
-    if (u.status === 'not solved' || !Number.isFinite(s)) { skipped++; continue; }
+    if (u.status === 'not solved' || typeof s !== 'number' || !Number.isFinite(s)) { skipped++; continue; }
     if (isEff(u)) bins[10]++;
     else bins[Math.min(9, Math.max(0, Math.floor(s * 10)))]++;
   }
   const yMax = Math.max(1, ...bins);
   const label = 'Histogram of scores for ' + (result.units.length - skipped) + ' units';
-  const f = frame(label, 11, yMax * 1.1, 'Score', 'Number of units', false);
+  const f = frame(label, 11, yMax * 1.1, 'Score (last bar: units on the frontier)', 'Number of units', false, SMALL_W, SMALL_H);
   const { root, sy } = f;
   const bw = f.pw / 11;
+  const base = M.top + f.ph;
   const g = svg('g', { class: 'bars' });
   bins.forEach((n, i) => {
     const x = M.left + i * bw;
     const band = i === 10 ? 'score 1 (on the frontier)' : 'score ' + (i / 10).toFixed(1) + ' to under ' + ((i + 1) / 10).toFixed(1);
     const tip = n + (n === 1 ? ' unit, ' : ' units, ') + band;
-    g.append(svg('rect', { x: x + 3, y: sy(n), width: bw - 6, height: Math.max(0, sy(0) - sy(n)), fill: i === 10 ? COLORS.barOne : COLORS.bar, class: 'bar', 'data-tip': tip, 'data-count': n }, svg('title', null, tip)));
+    g.append(svg('rect', { x: x + 2, y: sy(n), width: bw - 4, height: Math.max(0, sy(0) - sy(n)), fill: i === 10 ? COLORS.barOne : COLORS.bar, class: 'bar', 'data-tip': tip, 'data-count': n }, svg('title', null, tip)));
     if (n > 0) g.append(svg('text', { x: x + bw / 2, y: sy(n) - 4, 'text-anchor': 'middle', fill: COLORS.ink, 'font-size': 11 }, String(n)));
-    g.append(svg('text', { x: x + bw / 2, y: M.top + f.ph + 16, 'text-anchor': 'middle', fill: COLORS.axis, 'font-size': 10 }, i === 10 ? '1' : (i / 10).toFixed(1) + '–'));
+    if (i < 10 && i % 2 === 0) g.append(svg('text', { x, y: base + 16, 'text-anchor': 'middle', fill: COLORS.axis }, (i / 10).toFixed(1)));
+    if (i < 10) g.append(svg('line', { x1: x, x2: x, y1: base, y2: base + 4, stroke: COLORS.axis }));
   });
+  g.append(svg('text', { x: M.left + 10 * bw + bw / 2, y: base + 16, 'text-anchor': 'middle', fill: COLORS.ink, 'font-weight': 700 }, '1'));
   root.append(g);
   return { svg: root, skipped };
 }
@@ -220,7 +225,8 @@ export function peerChart(result, limit = 20) {
   const list = result.units.filter((u) => u.peerCount > 0).sort((a, b) => b.peerCount - a.peerCount || String(a.name).localeCompare(String(b.name))).slice(0, limit);
   const rowH = 22;
   const h = Math.max(120, list.length * rowH + 70);
-  const left = 170, right = 40;
+  const W = SMALL_W;
+  const left = 150, right = 36;
   const max = Math.max(1, ...list.map((u) => u.peerCount));
   const ticks = niceTicks(max, 5);
   const top = ticks[ticks.length - 1];
@@ -237,7 +243,7 @@ export function peerChart(result, limit = 20) {
   list.forEach((u, i) => {
     const y = 24 + i * rowH;
     const name = String(u.name);
-    const short = name.length > 24 ? name.slice(0, 23) + '…' : name;
+    const short = name.length > 21 ? name.slice(0, 20) + '…' : name;
     const tip = name + ': named as a peer by ' + u.peerCount + (u.peerCount === 1 ? ' unit' : ' units');
     root.append(svg('text', { x: left - 8, y: y + 14, 'text-anchor': 'end', fill: COLORS.ink }, [short, svg('title', null, name)]));
     root.append(svg('rect', { x: left, y: y + 2, width: Math.max(1, sx(u.peerCount) - left), height: rowH - 6, fill: COLORS.bar, class: 'bar', 'data-tip': tip, 'data-unit': u.index }, svg('title', null, tip)));

@@ -20,6 +20,9 @@ const state = {
   selected: -1,
   stale: false,
   validateSerial: 0,
+  loads: 0, // studies loaded so far
+  validations: 0, // checks finished so far
+  runs: 0, // runs finished so far (with results shown)
 };
 
 const preview = new Preview(() => studyChanged());
@@ -75,6 +78,7 @@ async function loadStudy(study, table, problems, note) {
   const n = (study.units || []).length, m = (study.measures || []).length;
   say('intake-status', note + ' ' + n + (n === 1 ? ' unit' : ' units') + ' and ' + m + (m === 1 ? ' measure.' : ' measures.'), 'ok');
   await revalidate();
+  state.loads++;
 }
 
 async function readText(text) {
@@ -138,6 +142,7 @@ async function revalidate() {
   v.setIssues(issues);
   preview.refresh();
   showStudyIssues(v);
+  state.validations++;
 }
 
 function showStudyIssues(v) {
@@ -247,6 +252,7 @@ function showResults(study, result) {
   const unverified = result.units.filter((u) => !(u.certificate && u.certificate.verified)).length;
   say('run-status', 'Done: ' + n + ' units compared, ' + eff + ' efficient.' + (unverified ? ' ' + unverified + ' results could not be verified; they are marked.' : ' Every result was verified.'), 'ok');
   document.body.classList.add('has-results');
+  state.runs++;
 }
 
 async function selectUnit(k, fromChart) {
@@ -338,5 +344,9 @@ Object.defineProperty(window, 'peerlens', {
     get result() { return state.result; },
     get study() { return state.view ? state.view.study : null; },
     get running() { return !!state.run; },
+    get loads() { return state.loads; },
+    get validations() { return state.validations; },
+    get runs() { return state.runs; },
+    get selected() { return state.selected; },
   }),
 });

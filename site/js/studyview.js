@@ -39,7 +39,8 @@ export function normProblem(p) {
     column: pick(p, 'column', 'Column') || 0,
     text: pick(p, 'text', 'Text') ?? '',
     severity: pick(p, 'severity', 'Severity') || 'error',
-    message: String(pick(p, 'message', 'reason', 'Reason', 'error', 'Error', 'err', 'Err') ?? 'problem'),
+    // reason is the plain reason alone (the page shows the place itself).
+    message: String(pick(p, 'reason', 'Reason', 'message', 'Message', 'error', 'Err') ?? 'problem'),
   };
 }
 
@@ -128,7 +129,7 @@ export class StudyView {
     const t = this.table;
     if (t && col.source >= 0 && t.rows.length === this.units.length) {
       const cells = t.rows[i] ? t.rows[i].cells : [];
-      if (col.kind !== 'name' || col.source >= 0) return cells[col.source] ?? '';
+      return cells[col.source] ?? '';
     }
     if (col.kind === 'name') return this.units[i] ?? '';
     if (col.kind === 'text') return (this.extra[col.index].cells || [])[i] ?? '';
@@ -209,11 +210,11 @@ export class StudyView {
 
   setIssues(issues) {
     this.issues = (issues || []).map((x) => ({
-      severity: x.severity || 'error',
-      code: x.code || '',
-      message: String(x.message ?? ''),
-      units: x.units || [],
-      measures: x.measures || [],
+      severity: pick(x, 'severity', 'Severity') || 'error',
+      code: pick(x, 'code', 'Code') || '',
+      message: String(pick(x, 'message', 'Message') ?? ''),
+      units: pick(x, 'units', 'Units') || [],
+      measures: pick(x, 'measures', 'Measures') || [],
     }));
     this.indexMarks();
   }

@@ -53,21 +53,23 @@ export class UnitReport {
     if (!blocks.length) {
       expl.append(el('p', { class: 'muted' }, rep && rep.error ? 'The engine could not explain this unit: ' + rep.error : 'No explanation is available for this unit.'));
     }
-    body.append(expl);
+    const left = el('div', { class: 'report-words' }, [el('h5', null, 'In plain words'), expl]);
+    const right = el('div', { class: 'report-numbers' });
+    body.append(el('div', { class: 'report-tables' }, [left, right]));
 
     if ((u.peers || []).length) {
-      body.append(el('h5', null, 'Peers to learn from'));
+      left.append(el('h5', null, 'Peers to learn from'));
       const ul = el('ul', { class: 'peer-list' });
       for (const p of u.peers) ul.append(el('li', null, [el('span', { class: 'unit-name' }, p.name), ' — weight ' + fmt(p.lambda, 4)]));
-      body.append(ul);
+      left.append(ul);
     }
 
-    body.append(el('h5', null, 'Targets'));
-    body.append(this.targetsTable(u, model));
+    right.append(el('h5', null, 'Targets'));
+    right.append(this.targetsTable(u, model));
 
     const ws = [...(u.inputWeights || []).map((w) => ['input', w]), ...(u.outputWeights || []).map((w) => ['output', w])];
     if (ws.length) {
-      body.append(el('h5', null, 'Weights the unit is judged by'));
+      right.append(el('h5', null, 'Weights the unit is judged by'));
       const t = el('table', { class: 'grid small' }, [
         el('caption', { class: 'visually-hidden' }, 'Weights and shares for ' + u.name),
         el('thead', null, el('tr', null, [el('th', { scope: 'col' }, 'Measure'), el('th', { scope: 'col' }, 'Side'), el('th', { scope: 'col', class: 'num' }, 'Weight'), el('th', { scope: 'col', class: 'num' }, 'Share')])),
@@ -77,13 +79,13 @@ export class UnitReport {
         tb.append(el('tr', null, [el('th', { scope: 'row' }, w.measure), el('td', null, side), el('td', { class: 'num' }, fmtSig(w.weight)), el('td', { class: 'num' }, shareBar(w.share))]));
       }
       t.append(tb);
-      body.append(t);
-      body.append(el('p', { class: 'muted small' }, 'Shares show how much of the unit\'s weighted inputs (or outputs) each measure carries.'));
+      right.append(t);
+      right.append(el('p', { class: 'muted small' }, 'Shares show how much of the unit\'s weighted inputs (or outputs) each measure carries.'));
     }
 
     const c = u.certificate || {};
-    body.append(el('h5', null, 'Verification'));
-    body.append(el('p', { class: 'verify ' + (c.verified ? 'ok' : 'not-ok') }, c.verified
+    right.append(el('h5', null, 'Verification'));
+    right.append(el('p', { class: 'verify ' + (c.verified ? 'ok' : 'not-ok') }, c.verified
       ? '✓ Verified: an independent check of this result found the solution consistent (largest errors ' + fmtSig(c.primalError) + ' and ' + fmtSig(c.dualError) + ', gap ' + fmtSig(c.gap) + ', within ' + fmtSig(c.tolerance) + ').'
       : '✗ Not verified: the independent check did not confirm this result (largest errors ' + fmtSig(c.primalError) + ' and ' + fmtSig(c.dualError) + ', gap ' + fmtSig(c.gap) + ', tolerance ' + fmtSig(c.tolerance) + '). Treat it with caution.'));
   }
