@@ -10,6 +10,7 @@ import { ModelForm, describeModel } from './modelform.js';
 import { ResultsTable } from './results.js';
 import { UnitReport } from './unitreport.js';
 import { ChartsPanel } from './chartspanel.js';
+import { Keeper } from './share.js';
 
 const state = {
   eng: null,
@@ -34,6 +35,13 @@ const modelForm = new ModelForm((settings) => {
 const results = new ResultsTable((k) => selectUnit(k));
 const unitReport = new UnitReport();
 const charts = new ChartsPanel((k) => selectUnit(k, true));
+// Study files, share links, the opt-in copy in this browser (share.js).
+const keeper = new Keeper({
+  engine: () => state.eng,
+  study: () => (state.view ? state.view.study : null),
+  load: (study, note) => loadStudy(study, null, [], note),
+  run: () => runStudy(),
+});
 
 function say(id, text, kind) {
   const n = $(id);
@@ -61,6 +69,7 @@ async function start() {
   }
   say('engine-status', 'Engine ready. Everything runs in this tab.', 'ok');
   document.body.classList.add('engine-ready');
+  if (await keeper.restore()) return;
   try {
     const demo = await state.eng.demo();
     await loadStudy(demo, null, [], 'Loaded the demo study' + (demo.title ? ': ' + demo.title : '') + '.');
@@ -77,6 +86,7 @@ async function loadStudy(study, table, problems, note) {
   clearResults();
   const n = (study.units || []).length, m = (study.measures || []).length;
   say('intake-status', note + ' ' + n + (n === 1 ? ' unit' : ' units') + ' and ' + m + (m === 1 ? ' measure.' : ' measures.'), 'ok');
+  keeper.loaded(study, !!table);
   await revalidate();
   state.loads++;
 }
@@ -125,6 +135,7 @@ function studyChanged() {
     $('results').classList.add('stale');
     say('run-status', 'The table or the model changed after these results were computed: compare the units again to update them.', 'busy');
   }
+  keeper.changed();
   revalidateSoon();
 }
 

@@ -1,0 +1,262 @@
+package browsertest
+
+import (
+	"context"
+	"fmt"
+	"net/url"
+	"os"
+	"path/filepath"
+	"strings"
+	"sync"
+	"testing"
+	"time"
+
+	"github.com/chromedp/cdproto/browser"
+	"github.com/chromedp/cdproto/network"
+	"github.com/chromedp/cdproto/page"
+	"github.com/chromedp/chromedp"
+)
+
+// watchScript runs in the page before any of its own scripts and records
+// every Content Security Policy violation the browser reports.
+const watchScript = `window.__csp = [];
+document.addEventListener('securitypolicyviolation', (e) => {
+	window.__csp.push(e.violatedDirective + ' blocked ' + (e.blockedURI || '(inline)') + ' at ' + e.sourceFile + ':' + e.lineNumber);
+});`
+
+// requests records the address of every request the page and its workers
+// make, as the browser reports them.
+type requests struct {
+	mu   sync.Mutex
+	urls []string
+}
+
+func (r *requests) add(u string) {
+	r.mu.Lock()
+	r.urls = append(r.urls, u)
+	r.mu.Unlock()
+}
+
+func (r *requests) list() []string {
+	r.mu.Lock()
+	defer r.mu.Unlock()
+	return append([]string(nil), r.urls...)
+}
+
+// browse starts a fresh headless browser like open does, but opens the page
+// at addr (a full address) only after recording of requests and policy
+// violations has started, and with downloads going to dir. ready is the
+// JavaScript condition to wait for after loading.
+func browse(t *testing.T, addr, dir, ready string) (*tab, *requests) {
+	t.Helper()
+	if skipReason != "" {
+		t.Skip(skipReason)
+	}
+	actx, cancelAlloc := chromedp.NewExecAllocator(context.Background(),
+		chromedp.ExecPath(chromePath),
+		chromedp.NoFirstRun,
+		chromedp.NoDefaultBrowserCheck,
+		chromedp.Headless,
+		chromedp.NoSandbox,
+		chromedp.DisableGPU,
+		chromedp.Flag("disable-background-networking", true),
+		chromedp.Flag("disable-component-update", true),
+		chromedp.Flag("disable-sync", true),
+		chromedp.Flag("disable-dev-shm-usage", true),
+		chromedp.Flag("allow-file-access-from-files", false),
+		chromedp.UserDataDir(t.TempDir()),
+		chromedp.WindowSize(1280, 900),
+	)
+	ctx, cancelCtx := chromedp.NewContext(actx)
+	ctx, cancelTime := context.WithTimeout(ctx, 170*time.Second)
+	tb := &tab{t: t, ctx: ctx}
+	t.Cleanup(func() {
+		cancelTime()
+		cancelCtx()
+		cancelAlloc()
+	})
+	reqs := &requests{}
+	if err := chromedp.Listen(ctx, func(ev any) {
+		switch e := ev.(type) {
+		case *network.EventRequestWillBeSent:
+			reqs.add(e.Request.URL)
+		case *page.EventJavascriptDialogOpening:
+			tb.mu.Lock()
+			tb.dialogs = append(tb.dialogs, string(e.Type))
+			tb.mu.Unlock()
+			go func() {
+				_, _ = chromedp.Call(ctx, page.HandleJavaScriptDialog, page.HandleJavaScriptDialogParams{Accept: true})
+			}()
+		}
+	}); err != nil {
+		t.Fatalf("starting the browser: %v", err)
+	}
+	go func() {
+		for msg, err := range chromedp.Console(ctx) {
+			if err != nil {
+				return
+			}
+			if msg.Type == chromedp.ConsoleError || msg.Type == chromedp.ConsoleException || msg.Type == "assert" {
+				tb.mu.Lock()
+				tb.errors = append(tb.errors, fmt.Sprintf("%s (%s:%d)", msg.Text, msg.URL, msg.Line+1))
+				tb.mu.Unlock()
+			}
+		}
+	}()
+	t.Cleanup(func() {
+		time.Sleep(100 * time.Millisecond)
+		tb.mu.Lock()
+		defer tb.mu.Unlock()
+		for _, e := range tb.errors {
+			t.Errorf("browser console error: %s", e)
+		}
+	})
+	if _, err := chromedp.Call(ctx, network.Enable, network.EnableParams{}); err != nil {
+		t.Fatalf("recording requests: %v", err)
+	}
+	if _, err := chromedp.Call(ctx, page.AddScriptToEvaluateOnNewDocument, page.AddScriptToEvaluateOnNewDocumentParams{Source: watchScript}); err != nil {
+		t.Fatalf("watching for policy violations: %v", err)
+	}
+	if dir != "" {
+		if _, err := chromedp.CallBrowser(ctx, browser.SetDownloadBehavior, browser.SetDownloadBehaviorParams{Behavior: browser.SetDownloadBehaviorBehaviorAllow, DownloadPath: dir}); err != nil {
+			t.Fatalf("sending downloads to %s: %v", dir, err)
+		}
+	}
+	if err := chromedp.Do(ctx, chromedp.Navigate(addr)); err != nil {
+		t.Fatalf("opening %s: %v", addr, err)
+	}
+	tb.waitFor(ready, 60*time.Second, "the page to be ready")
+	return tb, reqs
+}
+
+// checkOwnFiles fails for every request that is not for one of the page's
+// own files (under base) or a data: or blob: address made in the page.
+func checkOwnFiles(t *testing.T, reqs []string, base string) {
+	t.Helper()
+	if len(reqs) == 0 {
+		t.Fatal("no requests were recorded at all: the recording does not work")
+	}
+	for _, r := range reqs {
+		if strings.HasPrefix(r, "data:") || strings.HasPrefix(r, "blob:") {
+			continue
+		}
+		if base != "" && strings.HasPrefix(r, base) {
+			continue
+		}
+		t.Errorf("the page requested %s, which is not one of its own files", r)
+	}
+}
+
+// checkPolicy fails for every Content Security Policy violation the page saw.
+func (tb *tab) checkPolicy() {
+	tb.t.Helper()
+	for _, v := range eval[[]string](tb, `window.__csp || []`) {
+		tb.t.Errorf("content security policy violation: %s", v)
+	}
+}
+
+// TestOnlyOwnFiles loads the page, runs the demo study, opens a unit report
+// and exports CSV and .xlsx, and checks that every request went to the
+// page's own files and that the security policy was never broken.
+func TestOnlyOwnFiles(t *testing.T) {
+	dir := t.TempDir()
+	tb, reqs := browse(t, baseURL, dir, `window.peerlens && window.peerlens.loads >= 1`)
+	tb.runStudy()
+	tb.click(`#results-table .unit-link`)
+	tb.waitFor(`document.querySelector('#unit-body').textContent.length > 0`, 20*time.Second, "the unit report")
+	tb.click("#export-csv")
+	tb.click("#export-xlsx")
+	waitFiles(t, dir, 2)
+	tb.click("#save-study")
+	waitFiles(t, dir, 3)
+	tb.do(`document.getElementById('link-pass').value = ''`)
+	tb.click("#make-link")
+	tb.waitFor(`document.getElementById('share-link').value.includes('#s=')`, 20*time.Second, "the share link")
+	checkOwnFiles(t, reqs.list(), baseURL)
+	tb.checkPolicy()
+	// The policy the page declares forbids connections to anywhere else.
+	csp := eval[string](tb, `document.querySelector('meta[http-equiv="Content-Security-Policy"]').content`)
+	for _, want := range []string{"default-src 'self'", "connect-src 'self'", "object-src 'none'", "base-uri 'none'", "form-action 'none'"} {
+		if !strings.Contains(csp, want) {
+			t.Errorf("the page's policy %q lacks %q", csp, want)
+		}
+	}
+	// And the browser enforces it: a request elsewhere is refused.
+	refused := eval[bool](tb, `fetch('http://192.0.2.1/x').then(() => false, () => true)`)
+	if !refused {
+		t.Error("a request to another address was not refused")
+	}
+	tb.mu.Lock()
+	tb.errors = nil // the refusal above is logged as an error on purpose
+	tb.mu.Unlock()
+}
+
+// TestNoInlineScript checks the page's own files for inline scripts and
+// inline event handlers, which the policy forbids.
+func TestNoInlineScript(t *testing.T) {
+	root, err := moduleRoot()
+	if err != nil {
+		t.Fatal(err)
+	}
+	b, err := os.ReadFile(filepath.Join(root, "site", "index.html"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	html := strings.ToLower(string(b))
+	for i := 0; ; {
+		k := strings.Index(html[i:], "<script")
+		if k < 0 {
+			break
+		}
+		i += k
+		end := strings.Index(html[i:], ">")
+		if !strings.Contains(html[i:i+end], " src=") {
+			t.Errorf("index.html has an inline script at byte %d", i)
+		}
+		i += end
+	}
+	for _, attr := range []string{" onclick=", " onload=", " onerror=", " onchange=", " oninput=", " onsubmit=", "javascript:"} {
+		if strings.Contains(html, attr) {
+			t.Errorf("index.html has an inline handler %q", strings.TrimSpace(attr))
+		}
+	}
+	js, _ := filepath.Glob(filepath.Join(root, "site", "js", "*.js"))
+	for _, f := range js {
+		b, err := os.ReadFile(f)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, bad := range []string{"innerHTML", "eval(", "new Function(", ".setAttribute('on", `.setAttribute("on`} {
+			if strings.Contains(string(b), bad) {
+				t.Errorf("%s uses %s", filepath.Base(f), bad)
+			}
+		}
+	}
+}
+
+// waitFiles waits until dir holds n finished downloads.
+func waitFiles(t *testing.T, dir string, n int) []string {
+	t.Helper()
+	deadline := time.Now().Add(20 * time.Second)
+	for {
+		names, _ := filepath.Glob(filepath.Join(dir, "*"))
+		var done []string
+		for _, f := range names {
+			if !strings.HasSuffix(f, ".crdownload") {
+				done = append(done, f)
+			}
+		}
+		if len(done) >= n && len(done) == len(names) {
+			return done
+		}
+		if time.Now().After(deadline) {
+			t.Fatalf("waited for %d downloads in %s, have %v", n, dir, names)
+		}
+		time.Sleep(50 * time.Millisecond)
+	}
+}
+
+// fileURL is the file:// address of a local file.
+func fileURL(path string) string {
+	return (&url.URL{Scheme: "file", Path: filepath.ToSlash(path)}).String()
+}
