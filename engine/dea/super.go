@@ -74,10 +74,16 @@ func (ev *evaluator) super(u *UnitResult, o int) {
 			u.SuperNote = superInfeasibleNote(m)
 			return
 		}
-		s := scoreOf(radial, p.score)
-		u.Super = &s
 		cert := e.certify(p, x0, y0, -1, others)
 		u.SuperCert = &cert
+		if m.Orientation == Output && p.score <= scoreTol {
+			// phi = 0: the other units can stay within the unit's inputs only
+			// by producing nothing, so 1/phi has no finite value.
+			u.SuperNote = fmt.Sprintf("no finite super-efficiency score: without this unit, no combination of the other units that stays within its inputs produces any of its outputs under %s returns to scale; the unit is efficient and sits at an edge of the data", m.Returns)
+			return
+		}
+		s := scoreOf(radial, p.score)
+		u.Super = &s
 		return
 	}
 }
@@ -165,6 +171,9 @@ func Evaluate(d *Data, ref []int, x, y []float64, m Model) (*PointResult, error)
 	p, err := e.solve(x0, y0, -1, false, m.SecondStage)
 	if err != nil {
 		return nil, err
+	}
+	if m.Orientation == Output && p.score <= scoreTol {
+		return nil, fmt.Errorf("%w: the reference units can stay within the point's inputs only by producing nothing", ErrNoFiniteScore)
 	}
 	r := &PointResult{Score: scoreOf(m, p.score), Peers: []Peer{}}
 	if m.Orientation == Output {
