@@ -78,6 +78,13 @@ func Parse(text string) ([]byte, error) {
 	return parsed(t, err)
 }
 
+// ParseBytes reads the bytes of a text file, working out its encoding
+// (UTF-8, UTF-16 with a byte-order mark, or Windows-1252).
+func ParseBytes(b []byte) ([]byte, error) {
+	t, err := table.ParseBytes(b)
+	return parsed(t, err)
+}
+
 // ParseRecords reads records already split into cells (from a spreadsheet).
 func ParseRecords(records [][]string) ([]byte, error) {
 	t, err := table.FromRecords(records)
