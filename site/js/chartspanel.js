@@ -68,7 +68,7 @@ export class ChartsPanel {
       const list = lists[n];
       const before = sel.value;
       clear(sel);
-      sel.hidden = label.hidden = !list;
+      label.parentElement.hidden = !list;
       if (!list) return;
       label.textContent = labels[n];
       list.forEach((name, j) => sel.append(el('option', { value: j }, name)));

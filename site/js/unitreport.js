@@ -54,22 +54,24 @@ export class UnitReport {
       expl.append(el('p', { class: 'muted' }, rep && rep.error ? 'The engine could not explain this unit: ' + rep.error : 'No explanation is available for this unit.'));
     }
     const left = el('div', { class: 'report-words' }, [el('h5', null, 'In plain words'), expl]);
-    const right = el('div', { class: 'report-numbers' });
-    body.append(el('div', { class: 'report-tables' }, [left, right]));
+    const right = el('div', { class: 'report-side' });
+    const targets = el('div', { class: 'report-targets' });
+    const weights = el('div', { class: 'report-weights' });
+    body.append(el('div', { class: 'report-tables' }, [left, right, targets, weights]));
 
     if ((u.peers || []).length) {
-      left.append(el('h5', null, 'Peers to learn from'));
+      right.append(el('h5', null, 'Peers to learn from'));
       const ul = el('ul', { class: 'peer-list' });
       for (const p of u.peers) ul.append(el('li', null, [el('span', { class: 'unit-name' }, p.name), ' — weight ' + fmt(p.lambda, 4)]));
-      left.append(ul);
+      right.append(ul);
     }
 
-    right.append(el('h5', null, 'Targets'));
-    right.append(this.targetsTable(u, model));
+    targets.append(el('h5', null, 'Targets'));
+    targets.append(this.targetsTable(u, model));
 
     const ws = [...(u.inputWeights || []).map((w) => ['input', w]), ...(u.outputWeights || []).map((w) => ['output', w])];
     if (ws.length) {
-      right.append(el('h5', null, 'Weights the unit is judged by'));
+      weights.append(el('h5', null, 'Weights the unit is judged by'));
       const t = el('table', { class: 'grid small' }, [
         el('caption', { class: 'visually-hidden' }, 'Weights and shares for ' + u.name),
         el('thead', null, el('tr', null, [el('th', { scope: 'col' }, 'Measure'), el('th', { scope: 'col' }, 'Side'), el('th', { scope: 'col', class: 'num' }, 'Weight'), el('th', { scope: 'col', class: 'num' }, 'Share')])),
@@ -79,8 +81,8 @@ export class UnitReport {
         tb.append(el('tr', null, [el('th', { scope: 'row' }, w.measure), el('td', null, side), el('td', { class: 'num' }, fmtSig(w.weight)), el('td', { class: 'num' }, shareBar(w.share))]));
       }
       t.append(tb);
-      right.append(t);
-      right.append(el('p', { class: 'muted small' }, 'Shares show how much of the unit\'s weighted inputs (or outputs) each measure carries.'));
+      weights.append(t);
+      weights.append(el('p', { class: 'muted small' }, 'Shares show how much of the unit\'s weighted inputs (or outputs) each measure carries.'));
     }
 
     const c = u.certificate || {};
