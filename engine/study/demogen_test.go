@@ -21,15 +21,20 @@ const demoSeed = 1
 //
 //	F = 2.2 * staff^0.40 * budget^0.30 * area^0.15,
 //
-// is shared between the two outputs by a mix angle a in [0.25, 1.3]
+// is shared between the two outputs by a mix angle a in [0.55, 1.05]
 // (a quarter circle, so every mix is efficient): prescriptions dispensed
-// (thousands) = 1.0*F*cos(a) and patient consultations = 40*F*sin(a).
-// Six chosen pharmacies (the smallest, the largest and four others) lie on
-// the frontier (u = 1); the others produce u*F with u = exp(-|N(0, 0.3)|),
-// capped at 0.93 so that none sits on the frontier by accident. Values are
-// rounded to what a spreadsheet would hold: staff to 0.1 FTE, budget and
-// area to whole numbers, prescriptions to 0.1 thousand, consultations to
-// whole numbers.
+// (thousands) = F*cos(a) and patient consultations = 40*F*sin(a).
+// Five chosen pharmacies (the smallest, the largest and three drawn at
+// random) lie on the true frontier (u = 1); the others produce u*F with
+// u = exp(-|N(0, 0.35)|), capped at 0.85 so that none sits on the true
+// frontier by accident. Values are rounded to what a spreadsheet would hold:
+// staff to 0.1 FTE, budget and area to whole numbers, prescriptions to 0.1
+// thousand, consultations to whole numbers.
+//
+// Seeds 1 to 40 were tried and seed 1 kept: the variable-returns frontier
+// of its sample (checked by glpsol in TestDemoFrontier) holds the five
+// chosen pharmacies and one more, Old Dairy Yard (u = 0.85), which the
+// sample frontier, lying below the true one as it always does, reaches.
 func generateDemo(seed uint64) [][]float64 {
 	const n = 30
 	rng := rand.New(rand.NewPCG(seed, 0x9e3779b97f4a7c15))
