@@ -10,6 +10,7 @@ need_packages() {
 	command -v chromium >/dev/null 2>&1 || missing+=(chromium)
 	command -v glpsol >/dev/null 2>&1 || missing+=(glpk-utils)
 	command -v node >/dev/null 2>&1 || missing+=(nodejs)
+	command -v pdftotext >/dev/null 2>&1 || missing+=(poppler-utils)
 	if [ ${#missing[@]} -gt 0 ]; then
 		echo "build.sh: installing ${missing[*]} with apt-get" >&2
 		if [ "$(id -u)" = 0 ]; then SUDO=""; else SUDO="sudo"; fi
@@ -44,8 +45,11 @@ test)
 	PATH="$(go env GOROOT)/lib/wasm:$PATH" GOOS=js GOARCH=wasm go test -count=1 -timeout 20m ./engine/... ./wasm/...
 	;;
 dist)
-	echo "build.sh dist: not yet" >&2
-	exit 2
+	# One self-contained HTML file, usable offline from a file:// address.
+	tmp=$(mktemp -d)
+	trap 'rm -rf "$tmp"' EXIT
+	build_wasm "$tmp"
+	go run ./site/dist -site site -wasm "$tmp/peerlens.wasm" -wasm-exec "$tmp/wasm_exec.js" -out dist/peerlens.html
 	;;
 bench)
 	echo "build.sh bench: not yet" >&2

@@ -49,10 +49,22 @@ func (r *requests) list() []string {
 // JavaScript condition to wait for after loading.
 func browse(t *testing.T, addr, dir, ready string) (*tab, *requests) {
 	t.Helper()
+	return browseWith(t, addr, dir, ready, false)
+}
+
+// browseWith is browse, with the network cut off when offline is true:
+// every http and https request goes to a proxy address where nothing
+// listens (the loopback interface included), so none can succeed.
+func browseWith(t *testing.T, addr, dir, ready string, offline bool) (*tab, *requests) {
+	t.Helper()
 	if skipReason != "" {
 		t.Skip(skipReason)
 	}
-	actx, cancelAlloc := chromedp.NewExecAllocator(context.Background(),
+	var cut []chromedp.ExecAllocatorOption
+	if offline {
+		cut = append(cut, chromedp.ProxyServer("http://127.0.0.1:9"), chromedp.Flag("proxy-bypass-list", "<-loopback>"))
+	}
+	actx, cancelAlloc := chromedp.NewExecAllocator(context.Background(), append(cut,
 		chromedp.ExecPath(chromePath),
 		chromedp.NoFirstRun,
 		chromedp.NoDefaultBrowserCheck,
@@ -66,7 +78,7 @@ func browse(t *testing.T, addr, dir, ready string) (*tab, *requests) {
 		chromedp.Flag("allow-file-access-from-files", false),
 		chromedp.UserDataDir(t.TempDir()),
 		chromedp.WindowSize(1280, 900),
-	)
+	)...)
 	ctx, cancelCtx := chromedp.NewContext(actx)
 	ctx, cancelTime := context.WithTimeout(ctx, 170*time.Second)
 	tb := &tab{t: t, ctx: ctx}

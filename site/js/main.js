@@ -11,6 +11,7 @@ import { ResultsTable } from './results.js';
 import { UnitReport } from './unitreport.js';
 import { ChartsPanel } from './chartspanel.js';
 import { Keeper } from './share.js';
+import { PrintReport } from './printreport.js';
 
 const state = {
   eng: null,
@@ -42,6 +43,7 @@ const keeper = new Keeper({
   load: (study, note) => loadStudy(study, null, [], note),
   run: () => runStudy(),
 });
+const printReport = new PrintReport(() => state.eng);
 
 function say(id, text, kind) {
   const n = $(id);
@@ -258,6 +260,7 @@ function showResults(study, result) {
   results.show(result);
   unitReport.clear();
   charts.show(result, study);
+  printReport.show(study, result);
   const n = result.units.length;
   const eff = result.units.filter((u) => u.status === 'efficient').length;
   const unverified = result.units.filter((u) => !(u.certificate && u.certificate.verified)).length;
