@@ -132,14 +132,16 @@ func (b *builder) build(recs []record) (*Table, error) {
 		}
 		rows = append(rows, rec)
 	}
-	width, longest := 0, 0
+	width, longest, typed := 0, 0, 0
 	for _, rec := range rows {
-		n := len(rec.fields)
-		for n > 0 && trimSpace(rec.fields[n-1]) == "" {
-			n--
-		}
+		n := filledLen(rec.fields)
 		width = max(width, n)
 		longest = max(longest, len(rec.fields))
+		typed += n
+	}
+	if budget := max(2*typed, minCells); len(rows)*width > budget {
+		width = b.cutWide(rows, budget/len(rows))
+		longest = width
 	}
 	if longest > width && !b.spreadsheet {
 		what := fmt.Sprintf("column %d is", width+1)
@@ -175,6 +177,46 @@ func (b *builder) build(recs []record) (*Table, error) {
 	})
 	t.Problems = b.problems
 	return t, nil
+}
+
+// minCells is the number of cells a table may always hold, however much of
+// it is padding.
+const minCells = 1 << 16
+
+// filledLen is the number of fields up to the last one that is not blank.
+func filledLen(fields []string) int {
+	n := len(fields)
+	for n > 0 && trimSpace(fields[n-1]) == "" {
+		n--
+	}
+	return n
+}
+
+// cutWide limits the table to width columns, reporting each row that had
+// more. It is used when a few rows are so much wider than the rest that
+// padding every row to their width would make the table mostly empty cells
+// (and, for a long paste, too large to hold): a sign of a broken paste.
+func (b *builder) cutWide(rows []record, width int) int {
+	for _, rec := range rows {
+		n := filledLen(rec.fields)
+		if n <= width {
+			continue
+		}
+		extra := 0
+		first := ""
+		for _, f := range rec.fields[width:n] {
+			if trimSpace(f) != "" {
+				if extra == 0 {
+					first = f
+				}
+				extra++
+			}
+		}
+		b.add(rec.num, rec.line, 0, first, Error, fmt.Errorf(
+			"%w: it has %d cells where most rows have far fewer; only the first %d are read, and %d filled cells after them are not (the first is %q)",
+			ErrTooWide, n, width, extra, first))
+	}
+	return width
 }
 
 // detectHeader decides whether the first row holds names: it does when, over

@@ -22,6 +22,7 @@ var (
 	ErrBlankRow = errors.New("blank row")
 	ErrRagged   = errors.New("row has fewer cells than the table")
 	ErrTextRow  = errors.New("row holds text where the table holds numbers")
+	ErrTooWide  = errors.New("row far wider than the table")
 
 	// Header and column problems.
 	ErrNoHeader        = errors.New("no header row")

@@ -308,6 +308,23 @@ func TestRowsKeptAndReported(t *testing.T) {
 	}
 }
 
+// TestTooWide: one line far wider than a long table (a broken paste) does
+// not blow the table up; the cells past the table's width are reported.
+func TestTooWide(t *testing.T) {
+	text := "Unit\tX\n" + strings.Repeat("\t", 40000) + "stray\n" + strings.Repeat("A\t1\n", 20000)
+	tab := mustParse(t, text)
+	if w := len(tab.Header); w < 2 || w > 10 || len(tab.Rows)*w > 2*80003 { // 80003 cells typed
+		t.Fatalf("width %d for %d rows", w, len(tab.Rows))
+	}
+	p := problemAt(tab, 2, 0, ErrTooWide)
+	if p == nil || p.Severity != Error || p.Text != "stray" {
+		t.Errorf("want a too-wide error at row 2 naming the stray cell, got %v", p)
+	}
+	if v := tab.Columns[1].Values[len(tab.Rows)-1]; v != 1 {
+		t.Errorf("last value = %v, want 1", v)
+	}
+}
+
 // TestPositions: Row is the record number (what a spreadsheet shows as the
 // row number), StartLine the line of text where it starts; they differ after
 // a quoted cell holding line breaks.
