@@ -72,8 +72,11 @@ type fileStudy struct {
 }
 
 // Write writes s as a study file: indented JSON with one line per unit's
-// values, missing values as null. It fails (with ErrCannotWrite) only for
-// numbers JSON cannot hold: infinite values or settings bounds.
+// values, missing values as null. It fails with ErrCannotWrite, writing
+// nothing, when Read would refuse the file: for numbers JSON cannot hold
+// (infinite values or settings bounds) and for parts that do not fit
+// together (a row of values per unit, a value per measure, known roles,
+// left-out units among the units, usable settings).
 // An infinite Settings.Upper means "no upper bound" and is written as 0,
 // which means the same.
 func (s *Study) Write(w io.Writer) error {
@@ -141,6 +144,15 @@ func (s *Study) Write(w io.Writer) error {
 	field("settings", settings, false)
 	field("notes", s.Notes, true)
 	b.WriteString("}\n")
+	// Never write a file that Read refuses (parts that do not fit together,
+	// unknown roles or settings).
+	if _, err := Read(bytes.NewReader(b.Bytes())); err != nil {
+		e := &FileError{Err: ErrCannotWrite, Unit: -1, Measure: -1, Message: "the study cannot be saved: " + err.Error()}
+		if fe, ok := err.(*FileError); ok {
+			e.Unit, e.Measure = fe.Unit, fe.Measure
+		}
+		return e
+	}
 	_, err := w.Write(b.Bytes())
 	return err
 }

@@ -163,6 +163,35 @@ func TestWriteRefusesInfinity(t *testing.T) {
 	}
 }
 
+func TestWriteRefusesWhatReadRefuses(t *testing.T) {
+	for _, tc := range []struct {
+		name          string
+		change        func(s *Study)
+		unit, measure int
+		message       string
+	}{
+		{"short row", func(s *Study) { s.Values[3] = s.Values[3][:2] }, 3, -1, `unit "Mill Lane" (row 4) has 2 values but the study has 5 measures`},
+		{"missing row", func(s *Study) { s.Values = s.Values[:29] }, -1, -1, "lists 30 units but has 29 rows"},
+		{"unknown role", func(s *Study) { s.Measures[4].Role = "both" }, -1, 4, `role "both"`},
+		{"unknown left out", func(s *Study) { s.LeftOut = []string{"Nowhere"} }, -1, -1, `"Nowhere" is listed as left out`},
+		{"settings", func(s *Study) { s.Settings.Returns = "" }, -1, -1, "unknown returns to scale"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			s := Demo()
+			tc.change(s)
+			var buf bytes.Buffer
+			err := s.Write(&buf)
+			var fe *FileError
+			if !errors.As(err, &fe) || !errors.Is(err, ErrCannotWrite) {
+				t.Fatalf("got %v, want ErrCannotWrite", err)
+			}
+			if fe.Unit != tc.unit || fe.Measure != tc.measure || !strings.Contains(fe.Message, tc.message) || buf.Len() != 0 {
+				t.Errorf("got unit %d measure %d %q (wrote %d bytes), want %d %d %q", fe.Unit, fe.Measure, fe.Message, buf.Len(), tc.unit, tc.measure, tc.message)
+			}
+		})
+	}
+}
+
 func TestInfiniteUpperIsWrittenAsNoBound(t *testing.T) {
 	s := Demo()
 	s.Settings = dea.Model{Returns: dea.Bounded, Lower: 0.5, Upper: math.Inf(1), Orientation: dea.Input}
