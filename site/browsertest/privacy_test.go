@@ -3,7 +3,10 @@ package browsertest
 import (
 	"context"
 	"fmt"
+	"io"
+	"net/http"
 	"net/url"
+	"regexp"
 	"os"
 	"path/filepath"
 	"strings"
@@ -15,6 +18,8 @@ import (
 	"github.com/chromedp/cdproto/network"
 	"github.com/chromedp/cdproto/page"
 	"github.com/chromedp/chromedp"
+
+	"peerlens/site/server/static"
 )
 
 // watchScript runs in the page before any of its own scripts and records
@@ -271,4 +276,31 @@ func waitFiles(t *testing.T, dir string, n int) []string {
 // fileURL is the file:// address of a local file.
 func fileURL(path string) string {
 	return (&url.URL{Scheme: "file", Path: filepath.ToSlash(path)}).String()
+}
+
+// TestPolicyHeaderMatchesPage checks that the development server sends the
+// same Content Security Policy as the page declares in its meta element.
+func TestPolicyHeaderMatchesPage(t *testing.T) {
+	if skipReason != "" {
+		t.Skip(skipReason)
+	}
+	res, err := http.Get(baseURL)
+	if err != nil {
+		t.Fatal(err)
+	}
+	body, err := io.ReadAll(res.Body)
+	res.Body.Close()
+	if err != nil {
+		t.Fatal(err)
+	}
+	m := regexp.MustCompile(`<meta http-equiv="Content-Security-Policy" content="([^"]+)">`).FindSubmatch(body)
+	if m == nil {
+		t.Fatal("index.html has no Content Security Policy meta element")
+	}
+	if got := res.Header.Get("Content-Security-Policy"); got != string(m[1]) {
+		t.Errorf("the server sends the policy\n%q\nbut the page declares\n%q", got, m[1])
+	}
+	if static.Policy != string(m[1]) {
+		t.Errorf("static.Policy differs from the page's policy")
+	}
 }

@@ -42,6 +42,12 @@ func ContentType(name string) string {
 	return "application/octet-stream"
 }
 
+// Policy is the Content Security Policy sent with every file. It repeats
+// the policy in index.html's meta element: only the page's own files, the
+// engine's WebAssembly, workers from the page or blob: addresses, images
+// from data: and blob: addresses, and no connection to anywhere else.
+const Policy = "default-src 'self'; script-src 'self' 'wasm-unsafe-eval'; style-src 'self'; img-src 'self' data: blob:; worker-src 'self' blob:; connect-src 'self'; object-src 'none'; base-uri 'none'; form-action 'none'"
+
 // Handler serves the files under dir with fixed MIME types and headers that
 // turn caching off.
 func Handler(dir string) http.Handler {
@@ -57,6 +63,7 @@ func Handler(dir string) http.Handler {
 		h.Set("Pragma", "no-cache")
 		h.Set("Expires", "0")
 		h.Set("X-Content-Type-Options", "nosniff")
+		h.Set("Content-Security-Policy", Policy)
 		files.ServeHTTP(w, r)
 	})
 }
