@@ -34,7 +34,7 @@ func Example() {
 	// Budget: input (guessed: true)
 	// Visits: output (guessed: true)
 	// error: "South" has no value for "Visits": fill it in or leave the unit out.
-	// warning: 3 units for 2 inputs and 1 outputs is few: a common rule of thumb (Cooper, Seiford & Tone 2007) asks for at least max(2 × 1, 3 × (2 + 1)) = 9 units. With few units many of them look efficient; use fewer measures or more units.
+	// warning: 3 units for 2 inputs and 1 output is few: a common rule of thumb (Cooper, Seiford & Tone 2007) asks for at least max(2 × 1, 3 × (2 + 1)) = 9 units. With few units many of them look efficient; use fewer measures or more units.
 	// 2 <nil>
 }
 

@@ -277,6 +277,26 @@ func TestReadErrors(t *testing.T) {
 	}
 }
 
+// endless is a reader of endless spaces.
+type endless struct{}
+
+func (endless) Read(p []byte) (int, error) {
+	for i := range p {
+		p[i] = ' '
+	}
+	return len(p), nil
+}
+
+func TestReadRefusesHugeFiles(t *testing.T) {
+	if testing.Short() {
+		t.Skip("reads 64 MiB")
+	}
+	_, err := Read(endless{})
+	if !errors.Is(err, ErrTooLarge) || !strings.Contains(err.Error(), "larger than 64 MB") {
+		t.Fatalf("got %v, want ErrTooLarge", err)
+	}
+}
+
 func TestStudyInsideJSON(t *testing.T) {
 	type envelope struct {
 		Kind  string `json:"kind"`

@@ -383,8 +383,8 @@ func (v *validator) sampleSize() {
 	}
 	need := max(m*s, 3*(m+s))
 	if n < need {
-		v.add(Warning, CodeSampleSize, nil, nil, "%d units for %d inputs and %d outputs is few: a common rule of thumb (Cooper, Seiford & Tone 2007) asks for at least max(%d × %d, 3 × (%d + %d)) = %d units. With few units many of them look efficient; use fewer measures or more units.",
-			n, m, s, m, s, m, s, need)
+		v.add(Warning, CodeSampleSize, nil, nil, "%d %s for %d %s and %d %s is few: a common rule of thumb (Cooper, Seiford & Tone 2007) asks for at least max(%d × %d, 3 × (%d + %d)) = %d units. With few units many of them look efficient; use fewer measures or more units.",
+			n, verb(n, "unit", "units"), m, verb(m, "input", "inputs"), s, verb(s, "output", "outputs"), m, s, m, s, need)
 	}
 }
 

@@ -114,7 +114,7 @@ func TestValidateRules(t *testing.T) {
 		// Rule of thumb n >= max(m*s, 3(m+s)): Cooper, Seiford & Tone (2007),
 		// Data Envelopment Analysis: A Comprehensive Text, 2nd ed.
 		{"sample size", func(s *Study) { s.LeftOut = []string{"Harbour"} }, Warning, CodeSampleSize, nil, nil,
-			[]string{"5 units for 1 inputs and 1 outputs", "= 6 units"}},
+			[]string{"5 units for 1 input and 1 output", "= 6 units"}},
 		{"magnitudes", func(s *Study) {
 			for i := range s.Values {
 				s.Values[i][1] *= 1e5 // Visits up to 1.6e7 against Staff up to 10
