@@ -161,6 +161,15 @@ func TestFrontierChartMarksAndTargetPath(t *testing.T) {
 	// Choose the lowest-scoring unit in the results table.
 	k := eval[int](tb, `(() => { const us = window.peerlens.result.units; let k = 0; us.forEach((u, i) => { if (u.score < us[k].score) k = i; }); return k; })()`)
 	tb.do(`document.getElementById('results-table').querySelector('button.sort[data-sort="score"]').click()`)
+	sorted := eval[[]float64](tb, `[...document.querySelectorAll('#results-table tbody tr[data-unit]')].map(tr => Number(tr.dataset.score))`)
+	for i := 1; i < len(sorted); i++ {
+		if sorted[i] > sorted[i-1] {
+			t.Fatalf("after sorting by score the rows are not in descending order: %v", sorted)
+		}
+	}
+	if s := eval[string](tb, `document.querySelector('#results-table th.col-score').getAttribute('aria-sort')`); s != "descending" {
+		t.Errorf("score header aria-sort = %q, want descending", s)
+	}
 	tb.click(fmt.Sprintf(`#results-table button.unit-link[data-unit="%d"]`, k))
 	tb.waitFor(`document.querySelector('#frontier-chart .target-path line')`, 10*time.Second, "the target path of the chosen unit")
 	tb.waitFor(fmt.Sprintf(`document.querySelector('#frontier-chart .unit-mark.selected[data-unit="%d"]')`, k), 5*time.Second, "the chosen unit's mark")
@@ -415,6 +424,9 @@ func bigTSV(n int) string {
 func TestCancelLongRunKeepsPageUsable(t *testing.T) {
 	tb := open(t, 1280, 900)
 	tb.paste(bigTSV(6000))
+	if n := eval[int](tb, `document.querySelectorAll('#preview tbody tr[data-unit]').length`); n == 0 || n > 200 {
+		t.Errorf("the preview of 6000 rows puts %d rows in the page; it should draw only those in view", n)
+	}
 	tb.do(`document.getElementById('opt-super').click()`)
 	before := eval[string](tb, `JSON.stringify(window.peerlens.study)`)
 	tb.click("#run")

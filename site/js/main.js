@@ -186,7 +186,7 @@ async function runStudy() {
   say('run-status', 'Comparing the units…', 'busy');
   let handle;
   try {
-    handle = state.eng.run(snapshot, {
+    handle = startRun(snapshot, {
       onProgress(done, total) {
         if (state.run !== handle) return;
         bar.max = Math.max(1, total);
@@ -212,6 +212,13 @@ async function runStudy() {
   if (state.run !== handle) return;
   finishRun();
   showResults(snapshot, result);
+}
+
+// startRun asks the engine for a run and returns {promise, cancel}.
+function startRun(study, opts) {
+  const h = state.eng.run(study, opts);
+  if (h && h.promise) return h;
+  return { promise: Promise.resolve(h), cancel() {} }; // an engine without cancel
 }
 
 function finishRun() {
@@ -293,8 +300,9 @@ async function exportAs(kind) {
       const text = await state.eng.exportCSV(state.resultStudy, state.result);
       download(new Blob([text], { type: 'text/csv;charset=utf-8' }), 'peerlens-results.csv');
     } else {
-      const blob = await state.eng.exportXLSX(state.resultStudy, state.result);
-      download(blob, 'peerlens-results.xlsx');
+      const data = await state.eng.exportXLSX(state.resultStudy, state.result);
+      const type = 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet';
+      download(data instanceof Blob ? data : new Blob([data], { type }), 'peerlens-results.xlsx');
     }
   } catch (err) {
     say('run-status', 'The export failed: ' + message(err), 'bad');
