@@ -166,3 +166,13 @@ func TestMissingReasons(t *testing.T) {
 		}
 	}
 }
+
+// TestMarkerLength guards the shortcut in lexNumber that looks up missing
+// markers only for short texts.
+func TestMarkerLength(t *testing.T) {
+	for m := range missingMarkers {
+		if len(m) > maxMarker {
+			t.Errorf("marker %q is longer than maxMarker (%d)", m, maxMarker)
+		}
+	}
+}

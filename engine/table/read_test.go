@@ -157,3 +157,20 @@ func TestDecode(t *testing.T) {
 		}
 	}
 }
+
+// TestParseBytesUnicodeText reads a table saved as "Unicode text" (UTF-16
+// LE with a byte order mark, tab-separated, CRLF) through ParseBytes.
+func TestParseBytesUnicodeText(t *testing.T) {
+	text := "Filiale\tKosten €\r\nZürich\t1.234,5\r\nGenève\t980,25\r\n"
+	tab, err := ParseBytes(utf16Bytes(text, false, true))
+	if err != nil {
+		t.Fatal(err)
+	}
+	checkInvariants(t, tab)
+	if tab.Header[1] != "Kosten €" || tab.Rows[1].Cells[0] != "Genève" {
+		t.Errorf("header %q rows %+v", tab.Header, tab.Rows)
+	}
+	if v := tab.Columns[1].Values; !tab.Columns[1].DecimalComma || v[0] != 1234.5 || v[1] != 980.25 {
+		t.Errorf("values %v comma %v", v, tab.Columns[1].DecimalComma)
+	}
+}
