@@ -69,12 +69,15 @@ func run(args []string, out io.Writer) error {
 		}
 		m.Super = m.Super || *super
 	case *data != "":
-		d, err = loadTable(*data, splitNames(*inputs), splitNames(*outputs))
-		if err != nil {
-			return err
-		}
 		m = dea.Model{Orientation: dea.Orientation(*orient), SecondStage: *slacks, Super: *super, ScaleDetail: true, Lower: *lower, Upper: *upper}
 		if m.Returns, err = parseReturns(*rts); err != nil {
+			return err
+		}
+		if err = m.Validate(); err != nil {
+			return err
+		}
+		d, err = loadTable(*data, splitNames(*inputs), splitNames(*outputs))
+		if err != nil {
 			return err
 		}
 	default:
