@@ -5,6 +5,7 @@ import (
 	"math"
 	"strconv"
 	"strings"
+	"unicode"
 	"unicode/utf8"
 )
 
@@ -81,11 +82,10 @@ var currencyCodes = map[string]bool{
 }
 
 // isSpace reports the spaces people and spreadsheets put around and inside
-// numbers: ASCII space and tab, no-break space, narrow no-break space and thin
-// space.
-func isSpace(r rune) bool {
-	return r == ' ' || r == '\t' || r == '\u00A0' || r == '\u202F' || r == '\u2009' || r == '\n' || r == '\r'
-}
+// numbers, which are Unicode's white space: ASCII space, tab and line
+// breaks, no-break space (U+00A0), narrow no-break space (U+202F), thin
+// space and the rest.
+func isSpace(r rune) bool { return unicode.IsSpace(r) }
 
 func trimSpace(s string) string { return strings.TrimFunc(s, isSpace) }
 

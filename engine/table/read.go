@@ -168,7 +168,7 @@ func (r *reader) readQuoted(p, col int) (string, bool) {
 	r.pos = i + 1
 	// Spaces after the closing quote are fine; anything else is kept as text.
 	end := r.fieldEnd(r.pos)
-	if rest := s[r.pos:end]; strings.TrimSpace(rest) != "" {
+	if rest := s[r.pos:end]; trimSpace(rest) != "" {
 		r.report(col, s[p-1:end], Warning,
 			fmt.Errorf("%w: text follows the closing quote; it is kept as part of the cell", ErrQuote))
 		f += rest
@@ -258,7 +258,7 @@ func detectDelimiter(s string) byte {
 // isBlank reports whether every field is empty or white space.
 func isBlank(fields []string) bool {
 	for _, f := range fields {
-		if strings.TrimSpace(f) != "" {
+		if trimSpace(f) != "" {
 			return false
 		}
 	}
