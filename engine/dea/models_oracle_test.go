@@ -29,8 +29,9 @@ type oracleCase struct {
 }
 
 // oracleCases is the data the oracle suite runs on: every generator with
-// two seeds at n = 2..30 (one seed under -short), and two large mixed data
-// sets (n = 120 and 200) checked on a sample of units.
+// two seeds at n = 1..30 (one seed under -short), two data sets of two
+// units, and two large mixed data sets (about 140 and 200 units) checked on
+// a sample of units.
 func oracleCases(short bool) []oracleCase {
 	seeds := []uint64{1, 2}
 	if short {
@@ -43,8 +44,12 @@ func oracleCases(short bool) []oracleCase {
 			cs = append(cs, oracleCase{c, allUnits(len(c.Data.X))})
 		}
 	}
+	for _, k := range []string{"plain", "zeros"} {
+		c := generate(k, 3, 2)
+		cs = append(cs, oracleCase{c, allUnits(2)})
+	}
 	if !short {
-		for _, n := range []int{120, 200} {
+		for _, n := range []int{120, 170} {
 			c := generate("mixed", uint64(n), n)
 			var us []int
 			for j := 0; j < n; j += n / 6 {
@@ -74,34 +79,76 @@ type oracleAnswer struct {
 }
 
 // solveCase asks glpsol for every unit of c under every model of the grid,
-// two glpsol processes at a time. answers[model][unit].
-func solveCase(ctx context.Context, c oracleCase, grid []namedModel) [][]oracleAnswer {
+// two glpsol processes at a time. The radial and second-stage LPs of up to
+// batchUnits units go to one glpsol process as independent blocks
+// (oracle.SolveRadialBatch); super-efficiency LPs, which may be infeasible,
+// get one process each. answers[model][unit].
+func solveCase(ctx context.Context, c oracleCase, grid []namedModel) ([][]oracleAnswer, int) {
+	const batchUnits = 30
 	ans := make([][]oracleAnswer, len(grid))
 	for i := range ans {
 		ans[i] = make([]oracleAnswer, len(c.Data.X))
 	}
 	X, Y := c.Data.X, c.Data.Y
-	nu := len(c.units)
+	type job struct {
+		g     int
+		units []int // a batch of radial + second-stage LPs
+		super int   // or one super-efficiency LP (units == nil)
+	}
+	var jobs []job
+	for g := range grid {
+		for k := 0; k < len(c.units); k += batchUnits {
+			jobs = append(jobs, job{g: g, units: c.units[k:min(k+batchUnits, len(c.units))]})
+		}
+		for _, o := range c.units {
+			jobs = append(jobs, job{g: g, super: o})
+		}
+	}
 	var mu sync.Mutex
-	_ = oracle.Each(ctx, len(grid)*nu, 2, func(ctx context.Context, k int) error {
-		g, o := k/nu, c.units[k%nu]
-		var a oracleAnswer
-		a.radial, a.err = oracle.SolveRadial(ctx, X, Y, o, grid[g].Spec, oracle.Options{})
-		if a.err == nil && !a.radial.Feasible {
-			a.err = fmt.Errorf("glpsol: the radial LP is infeasible")
+	fail := func(g int, units []int, err error) {
+		for _, o := range units {
+			ans[g][o].err = err
 		}
-		if a.err == nil {
-			a.slacks, a.err = oracle.SolveSlacks(ctx, X, Y, o, grid[g].Spec, a.radial.Value, oracle.Options{})
+	}
+	_ = oracle.Each(ctx, len(jobs), 2, func(ctx context.Context, k int) error {
+		jb := jobs[k]
+		spec := grid[jb.g].Spec
+		if jb.units == nil {
+			r, err := oracle.SolveRadial(ctx, X, Y, jb.super, spec.Super(), oracle.Options{})
+			mu.Lock()
+			ans[jb.g][jb.super].super = r
+			if err != nil {
+				ans[jb.g][jb.super].err = err
+			}
+			mu.Unlock()
+			return nil
 		}
-		if a.err == nil {
-			a.super, a.err = oracle.SolveRadial(ctx, X, Y, o, grid[g].Spec.Super(), oracle.Options{})
+		rs, err := oracle.SolveRadialBatch(ctx, X, Y, jb.units, spec, oracle.Options{})
+		var ss []oracle.Slacks
+		if err == nil {
+			vals := make([]float64, len(rs))
+			for i, r := range rs {
+				if !r.Feasible {
+					err = fmt.Errorf("glpsol: the radial LP of unit %d is infeasible", jb.units[i])
+				}
+				vals[i] = r.Value
+			}
+			if err == nil {
+				ss, err = oracle.SolveSlacksBatch(ctx, X, Y, jb.units, spec, vals, oracle.Options{})
+			}
 		}
 		mu.Lock()
-		ans[g][o] = a
-		mu.Unlock()
+		defer mu.Unlock()
+		if err != nil {
+			fail(jb.g, jb.units, err)
+			return nil
+		}
+		for i, o := range jb.units {
+			ans[jb.g][o].radial, ans[jb.g][o].slacks = rs[i], ss[i]
+		}
 		return nil
 	})
-	return ans
+	return ans, 2*len(grid)*((len(c.units)+batchUnits-1)/batchUnits) + len(grid)*len(c.units)
 }
 
 // exactValue re-solves one radial LP with rational arithmetic for a
@@ -132,11 +179,12 @@ func TestModelsAgainstGlpsol(t *testing.T) {
 	needGlpsol(t)
 	grid := modelGrid()
 	ctx := context.Background()
-	lps := 0
+	lps, procs := 0, 0
 	for _, c := range oracleCases(testing.Short()) {
 		t.Run(fmt.Sprintf("%s/seed%d/n%d", c.Kind, c.Seed, len(c.Data.X)), func(t *testing.T) {
-			ans := solveCase(ctx, c, grid)
+			ans, runs := solveCase(ctx, c, grid)
 			lps += 3 * len(grid) * len(c.units)
+			procs += runs
 			for g, nm := range grid {
 				res, err := dea.Run(ctx, c.Data, nm.Model, nil)
 				if err != nil {
@@ -149,7 +197,7 @@ func TestModelsAgainstGlpsol(t *testing.T) {
 			}
 		})
 	}
-	t.Logf("%d glpsol runs", lps)
+	t.Logf("%d LPs compared in %d glpsol processes", lps, procs)
 }
 
 // compareUnit reports every disagreement of one unit under one model.

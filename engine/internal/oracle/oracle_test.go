@@ -181,3 +181,43 @@ func TestEach(t *testing.T) {
 		}
 	}
 }
+
+// The batched solves must give what one process per unit gives, on the
+// a six-unit, two-input, two-output data set under five models.
+func TestBatchMatchesSingle(t *testing.T) {
+	needGlpsol(t)
+	X := [][]float64{{1, 3}, {3, 1}, {3, 3}, {4, 1}, {2, 2}, {5, 4}}
+	Y := [][]float64{{1, 2}, {1, 1}, {1, 3}, {1, 1}, {2, 1}, {3, 3}}
+	ctx := context.Background()
+	units := []int{0, 2, 3, 5}
+	for _, s := range []Spec{CRS, VRS.Orient(true), NIRS, NDRS.Orient(true), Bounded(0.8, 1.2)} {
+		rs, err := SolveRadialBatch(ctx, X, Y, units, s, Options{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		vals := make([]float64, len(units))
+		for k, o := range units {
+			one, err := SolveRadial(ctx, X, Y, o, s, Options{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if math.Abs(one.Value-rs[k].Value) > 1e-9 {
+				t.Errorf("%+v unit %d: batch %g, single %g", s, o, rs[k].Value, one.Value)
+			}
+			vals[k] = rs[k].Value
+		}
+		ss, err := SolveSlacksBatch(ctx, X, Y, units, s, vals, Options{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		for k, o := range units {
+			one, err := SolveSlacks(ctx, X, Y, o, s, vals[k], Options{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if math.Abs(one.Weighted-ss[k].Weighted) > 1e-9 {
+				t.Errorf("%+v unit %d: batch weighted slack %g, single %g", s, o, ss[k].Weighted, one.Weighted)
+			}
+		}
+	}
+}
