@@ -33,8 +33,10 @@ export class Preview {
   // refresh redraws after issues or roles changed.
   refresh() {
     if (!this.view) return;
-    this.vt.rebuildHead();
-    this.vt.invalidate();
+    this.vt.keepFocus(() => {
+      this.vt.rebuildHead();
+      this.vt.invalidate();
+    });
     this.refreshLists();
   }
 
@@ -75,14 +77,12 @@ export class Preview {
     const out = v.isLeftOut(i);
     const name = v.units[i];
     const rowMarks = v.rowMarks.get(i) || [];
-    const tr = el('tr', { 'data-unit': i, class: (out ? 'left-out' : '') + (rowMarks.length ? ' marked-row ' + worst(rowMarks) : '') });
+    const tr = el('tr', { 'data-unit': i, class: (out ? 'is-left-out' : '') + (rowMarks.length ? ' marked-row ' + worst(rowMarks) : '') });
     const box = el('input', { type: 'checkbox', id: 'inc-' + i, 'aria-label': 'Include ' + name });
     box.checked = !out;
     box.addEventListener('change', () => {
       v.setLeftOut(i, !box.checked);
       this.vt.updateRow(i);
-      const again = this.vt.rows.get(i);
-      if (again) again.querySelector('input[type=checkbox]').focus();
       this.refreshLists();
       this.onChange('left-out');
     });

@@ -45,6 +45,30 @@ export class VirtualTable {
     this.bottomPad.replaceChildren(el('td', { colspan: this.columns }));
   }
 
+  // keepFocus runs fn (which may rebuild rows or the header) and puts
+  // keyboard focus back on the same control or cell afterwards.
+  keepFocus(fn) {
+    const a = document.activeElement;
+    if (!a || a === document.body || !this.table.contains(a)) return fn();
+    const tr = a.closest('tr');
+    const key = {
+      id: a.id,
+      row: tr && tr.dataset.vrow !== undefined ? Number(tr.dataset.vrow) : -1,
+      col: a.getAttribute('data-col'),
+      tag: a.tagName.toLowerCase(),
+      head: this.thead.contains(a),
+    };
+    const out = fn();
+    let target = key.id ? document.getElementById(key.id) : null;
+    if (!target && key.row >= 0) {
+      const row = this.rows.get(key.row);
+      if (row) target = key.col !== null ? row.querySelector(key.tag + '[data-col="' + key.col + '"]') : row.querySelector(key.tag);
+    }
+    if (!target && key.head && key.col !== null) target = this.headRow.querySelector('[data-col="' + key.col + '"]');
+    if (target && this.table.contains(target)) target.focus({ preventScroll: true });
+    return out;
+  }
+
   // setCount sets the number of logical rows and drops all built rows.
   setCount(n) {
     this.count = n;
@@ -62,9 +86,12 @@ export class VirtualTable {
   updateRow(i) {
     const old = this.rows.get(i);
     if (!old) return;
-    const tr = this.opts.buildRow(i);
-    this.rows.set(i, tr);
-    old.replaceWith(tr);
+    this.keepFocus(() => {
+      const tr = this.opts.buildRow(i);
+      tr.dataset.vrow = i;
+      this.rows.set(i, tr);
+      old.replaceWith(tr);
+    });
   }
 
   schedule() {
@@ -110,6 +137,7 @@ export class VirtualTable {
       let tr = this.rows.get(i);
       if (!tr) {
         tr = this.opts.buildRow(i);
+        tr.dataset.vrow = i;
         this.rows.set(i, tr);
       }
       wanted.push(tr);
