@@ -45,6 +45,14 @@ function tickText(v) {
   return String(Number(v.toPrecision(6)));
 }
 
+// fitLabel shortens an axis label to about max characters, keeping the
+// whole text in a <title> for hover and screen readers.
+function fitLabel(text, max) {
+  const t = String(text);
+  if (t.length <= max) return t;
+  return [t.slice(0, Math.max(1, Math.floor(max) - 1)) + '…', svg('title', null, t)];
+}
+
 let chartSerial = 0;
 
 // frame makes an SVG root with a white background, axes, grid and labels.
@@ -71,8 +79,8 @@ function frame(label, xMax, yMax, xLabel, yLabel, xTicks = true, W = FULL_W, H =
   root.append(grid, labels);
   root.append(svg('line', { x1: M.left, x2: M.left + pw, y1: M.top + ph, y2: M.top + ph, stroke: COLORS.axis }));
   root.append(svg('line', { x1: M.left, x2: M.left, y1: M.top, y2: M.top + ph, stroke: COLORS.axis }));
-  root.append(svg('text', { x: M.left + pw / 2, y: H - 12, 'text-anchor': 'middle', fill: COLORS.ink, 'font-size': 13 }, xLabel));
-  root.append(svg('text', { x: 16, y: M.top + ph / 2, 'text-anchor': 'middle', fill: COLORS.ink, 'font-size': 13, transform: `rotate(-90 16 ${M.top + ph / 2})` }, yLabel));
+  root.append(svg('text', { x: M.left + pw / 2, y: H - 12, 'text-anchor': 'middle', fill: COLORS.ink, 'font-size': 13 }, fitLabel(xLabel, pw / 7.2)));
+  root.append(svg('text', { x: 16, y: M.top + ph / 2, 'text-anchor': 'middle', fill: COLORS.ink, 'font-size': 13, transform: `rotate(-90 16 ${M.top + ph / 2})` }, fitLabel(yLabel, ph / 7.2)));
   const clip = svg('clipPath', { id: id + '-clip' }, svg('rect', { x: M.left, y: M.top, width: pw, height: ph }));
   const defs = svg('defs', null, [clip,
     svg('marker', { id: id + '-arrow', viewBox: '0 0 10 10', refX: 9, refY: 5, markerWidth: 7, markerHeight: 7, orient: 'auto-start-reverse' },
