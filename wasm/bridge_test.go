@@ -16,6 +16,7 @@ import (
 	"peerlens/engine/report"
 	"peerlens/engine/study"
 	"peerlens/wasm/api"
+	js "peerlens/wasm/internal/jsbridge"
 )
 
 // engine registers the bridge once and returns the global object.
@@ -212,10 +213,22 @@ func TestParseAndRecords(t *testing.T) {
 	if e := errorOf(t, r); e != "" {
 		t.Fatal(e)
 	}
+	// The same cells as JSON text, the form the spreadsheet module sends.
+	r2 := call(t, "parseRecords", `[["unit","staff","visits"],["A","10","100"],["B","12","x"]]`)
+	if e := errorOf(t, r2); e != "" {
+		t.Fatal(e)
+	}
 	st1, _ := p.Get("study")
-	st2, _ := r.Get("study")
-	if a, b := stringify(t, st1), stringify(t, st2); a != b {
-		t.Errorf("records and text give different studies:\n%s\n%s", a, b)
+	for _, v := range []safejs.Value{r, r2} {
+		st2, _ := v.Get("study")
+		if a, b := stringify(t, st1), stringify(t, st2); a != b {
+			t.Errorf("records and text give different studies:\n%s\n%s", a, b)
+		}
+	}
+	bytesArr, _ := js.Bytes([]byte("unit;staff;visits\nA;10;100\nB;12;x\n"))
+	pb := call(t, "parseBytes", bytesArr)
+	if got := stringify(t, pb); got != stringify(t, p) {
+		t.Errorf("parseBytes = %s\nparse = %s", got, stringify(t, p))
 	}
 }
 
@@ -278,7 +291,7 @@ func TestErrorsComeBackAsMessages(t *testing.T) {
 		}
 	}
 	// A panic inside a handler is recovered at the boundary.
-	f := guard("boom", func([]safejs.Value) (any, error) { panic("boom") })
+	f := js.Guard("boom", func([]safejs.Value) (any, error) { panic("boom") })
 	v := f(safejs.Undefined(), nil).(safejs.Value)
 	if e := errorOf(t, v); !strings.Contains(e, "internal error in boom: boom") {
 		t.Errorf("panic gave %q", e)
