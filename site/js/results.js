@@ -114,8 +114,7 @@ export class ResultsTable {
     const k = this.order[i];
     const u = this.result.units[k];
     const tr = el('tr', { 'data-unit': k, 'data-score': String(u.score), 'data-status': u.status, class: 'status-' + String(u.status).replace(/\s+/g, '-') + (k === this.selected ? ' selected' : '') });
-    if (k === this.selected) tr.setAttribute('aria-selected', 'true');
-    const nameBtn = el('button', { type: 'button', class: 'unit-link', 'data-unit': k, 'aria-label': 'Report for ' + u.name }, u.name);
+    const nameBtn = el('button', { type: 'button', class: 'unit-link', 'data-unit': k, 'aria-label': 'Report for ' + u.name, 'aria-current': k === this.selected ? 'true' : null }, u.name);
     nameBtn.addEventListener('click', () => this.select(k));
     tr.addEventListener('click', (e) => { if (e.target.tagName !== 'BUTTON') this.select(k); });
     const sup = superValue(u);
@@ -139,8 +138,9 @@ export class ResultsTable {
     for (const tr of this.vt.rows.values()) {
       const is = Number(tr.getAttribute('data-unit')) === k;
       tr.classList.toggle('selected', is);
-      if (is) tr.setAttribute('aria-selected', 'true');
-      else tr.removeAttribute('aria-selected');
+      const b = tr.querySelector('button.unit-link');
+      if (is) b.setAttribute('aria-current', 'true');
+      else b.removeAttribute('aria-current');
     }
     if (prev !== k) this.onSelect(k);
   }
