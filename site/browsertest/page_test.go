@@ -480,3 +480,53 @@ func TestLayoutAtLaptopAndTabletWidths(t *testing.T) {
 		})
 	}
 }
+
+// TestFrontierOutlineGeometry checks the outline the two-measure chart draws
+// (site/js/geometry.js) on small point sets whose frontiers are known by
+// hand. Source: common practice — with one input and one output the
+// variable-returns frontier is the upper concave hull starting at the
+// smallest input (Banker, Charnes & Cooper 1984, their figure of the BCC
+// frontier; from memory), and the constant-returns frontier is the ray from
+// the origin through the unit with the highest output/input ratio.
+func TestFrontierOutlineGeometry(t *testing.T) {
+	tb := open(t, 1280, 900)
+	got := eval[map[string][][]float64](tb, `(async () => {
+		const g = await import('./js/geometry.js');
+		const pts = [[2, 1], [3, 3], [5, 4], [6, 4.5], [4, 2]];
+		return {
+			vrs: g.ioFrontier(pts, 'variable', 0, 0, 10),
+			crs: g.ioFrontier(pts, 'constant', 0, 0, 10).slice(0, 2),
+			nirs: g.ioFrontier(pts, 'non-increasing', 0, 0, 10),
+			iso: g.lowerLeftFrontier([[1, 4], [2, 2], [4, 1], [3, 3], [2.5, 1.8]], 5, 5),
+			ppf: g.upperRightFrontier([[1, 4], [2, 3.5], [4, 1], [2, 2], [3.5, 2.5]]),
+		};
+	})()`)
+	want := map[string][][]float64{
+		"vrs":  {{2, 0}, {2, 1}, {3, 3}, {6, 4.5}, {100, 4.5}},
+		"crs":  {{0, 0}, {0, 0}},
+		"nirs": {{0, 0}, {0, 0}, {3, 3}, {6, 4.5}, {100, 4.5}},
+		"iso":  {{1, 50}, {1, 4}, {2, 2}, {4, 1}, {50, 1}}, // (2.5, 1.8) lies above the segment (2,2)-(4,1)
+		"ppf":  {{4, 0}, {4, 1}, {3.5, 2.5}, {2, 3.5}, {1, 4}, {0, 4}},
+	}
+	for name, w := range want {
+		g := got[name]
+		if name == "crs" {
+			// The ray leaves the origin with slope 1 (unit (3,3) has the best ratio).
+			line := eval[[][]float64](tb, `(async () => (await import('./js/geometry.js')).ioFrontier([[2, 1], [3, 3], [5, 4], [6, 4.5], [4, 2]], 'constant', 0, 0, 10))()`)
+			if len(line) < 3 || line[1][0] != 0 || line[1][1] != 0 || math.Abs(line[2][1]/line[2][0]-1) > 1e-12 || line[2][0] < 10 {
+				t.Errorf("constant-returns outline %v: want the origin, then a ray of slope 1 past the chart edge", line)
+			}
+			continue
+		}
+		if len(g) != len(w) {
+			t.Errorf("%s outline %v, want %v", name, g, w)
+			continue
+		}
+		for i := range w {
+			if math.Abs(g[i][0]-w[i][0]) > 1e-12 || math.Abs(g[i][1]-w[i][1]) > 1e-12 {
+				t.Errorf("%s outline %v, want %v", name, g, w)
+				break
+			}
+		}
+	}
+}
