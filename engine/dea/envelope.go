@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"slices"
 
 	"peerlens/engine/lp"
 )
@@ -111,8 +112,51 @@ type envelope struct {
 	rows   int
 	cols   int
 	prob   lp.Problem
-	extra  int // column index of the extra (self) lambda
-	slack0 int // first slack column
+	extra  int           // column index of the extra (self) lambda
+	slack0 int           // first slack column
+	ws     *lp.Workspace // buffers of the radial stage
+	// The second-stage program (one more row, one more column), laid out on
+	// first use; columns that solve changes are copied into it per call.
+	ws2   *lp.Workspace
+	prob2 lp.Problem
+	dirty int // a lambda column of prob2 that differs from prob (-1: none)
+	// cutoff, when positive, stops the radial stage as soon as the score
+	// (input orientation) is proven below it: screening needs no more.
+	cutoff float64
+	// recent holds the radial stage's optimal bases of the last few units
+	// solved (see warm); they are offered to the solver as starting bases.
+	recent [][]int
+	warm   bool
+}
+
+// recentBases is how many recent optimal bases are offered as starts.
+const recentBases = 4
+
+// forget empties the recent bases, so that what follows does not depend on
+// what was solved before.
+func (e *envelope) forget() { e.recent = e.recent[:0] }
+
+// remember keeps an optimal basis of the radial stage for later starts,
+// unless it uses a column whose content depends on the unit (the score
+// column must be basic and is the same column; the extra column is not).
+func (e *envelope) remember(basis []int) {
+	for _, j := range basis {
+		if j < 0 || j == e.extra {
+			return
+		}
+	}
+	for _, b := range e.recent {
+		if slices.Equal(b, basis) {
+			return
+		}
+	}
+	if len(e.recent) < recentBases {
+		e.recent = append(e.recent, append([]int(nil), basis...))
+		return
+	}
+	last := e.recent[len(e.recent)-1]
+	copy(e.recent[1:], e.recent[:len(e.recent)-1])
+	e.recent[0] = append(last[:0], basis...)
 }
 
 func newEnvelope(sc *scaled, ref []int, m Model) *envelope {
@@ -151,6 +195,7 @@ func newEnvelope(sc *scaled, ref []int, m Model) *envelope {
 		}
 	}
 	e.prob = lp.Problem{Rows: e.rows, A: a, B: make([]float64, e.rows), C: make([]float64, e.cols)}
+	e.ws, e.ws2, e.dirty = new(lp.Workspace), new(lp.Workspace), -1
 	return e
 }
 
@@ -168,6 +213,7 @@ func (e *envelope) clone() *envelope {
 	c.prob.A = append([]float64(nil), e.prob.A...)
 	c.prob.B = make([]float64, e.rows)
 	c.prob.C = make([]float64, e.cols)
+	c.ws, c.ws2, c.prob2, c.dirty = new(lp.Workspace), new(lp.Workspace), lp.Problem{}, -1
 	return &c
 }
 
@@ -227,8 +273,10 @@ func (e *envelope) solve(x, y []float64, self int, exclude, second bool) (*point
 	if self < 0 {
 		inRef = false
 	}
+	hidden := -1
 	switch {
 	case exclude && inRef:
+		hidden = 1 + k
 		// Hide the unit's own column: zero it and restore it afterwards.
 		own := a[(1+k)*rows : (2+k)*rows]
 		saved := append([]float64(nil), own...)
@@ -246,20 +294,30 @@ func (e *envelope) solve(x, y []float64, self int, exclude, second bool) (*point
 		e.fillLambda(extra, sc.x[self], sc.y[self])
 		selfCol = e.extra
 	}
-	opt := lp.Options{NoScale: true, Checked: true}
+	opt := lp.Options{NoScale: true, Checked: true, NoReducedCosts: true}
+	if e.cutoff > 0 && input {
+		opt.HasCutoff, opt.Cutoff = true, e.cutoff
+	}
 	if selfCol >= 0 {
 		opt.Basis = e.selfBasis(x, y, selfCol)
 	}
-	sol, err := lp.Solve(&e.prob, &opt)
+	warm := e.warm && hidden < 0 && !exclude
+	if warm {
+		opt.Starts = e.recent
+	}
+	sol, err := e.ws.Solve(&e.prob, &opt)
 	if err != nil {
 		if errors.Is(err, lp.ErrInfeasible) {
-			return &point{y: sol.Y}, fmt.Errorf("%w (%v)", ErrNoFiniteScore, err)
+			return &point{y: append([]float64(nil), sol.Y...)}, fmt.Errorf("%w (%v)", ErrNoFiniteScore, err)
 		}
 		return nil, err
 	}
-	p := &point{score: sol.X[0], y: sol.Y, iter: sol.Iter, phase1: sol.Phase1, basis: sol.Basis}
+	if warm && !sol.Stopped {
+		e.remember(sol.Basis)
+	}
+	p := &point{score: sol.X[0], y: append([]float64(nil), sol.Y...), iter: sol.Iter, phase1: sol.Phase1, basis: append([]int(nil), sol.Basis...)}
 	if second {
-		if sol2, err := e.secondStage(sol); err == nil {
+		if sol2, err := e.secondStage(sol, hidden); err == nil {
 			p.iter += sol2.Iter
 			sol = sol2
 		} else {
@@ -331,24 +389,37 @@ func argmax(v []float64) int {
 // the slacks (in scaled data, so each slack is weighted by 1 / its measure's
 // mean). It adds one row, score + t = score* (input) or score - t = score*
 // (output), whose slack t starts basic at zero next to the optimal basis.
-func (e *envelope) secondStage(first *lp.Solution) (*lp.Solution, error) {
+func (e *envelope) secondStage(first *lp.Solution, hidden int) (*lp.Solution, error) {
 	rows, cols := e.rows+1, e.cols+1
-	a := make([]float64, rows*cols)
-	for j := 0; j < e.cols; j++ {
-		copy(a[j*rows:j*rows+e.rows], e.prob.A[j*e.rows:(j+1)*e.rows])
+	if e.prob2.A == nil {
+		a := make([]float64, rows*cols)
+		for j := 0; j < e.cols; j++ {
+			copy(a[j*rows:j*rows+e.rows], e.prob.A[j*e.rows:(j+1)*e.rows])
+		}
+		a[0*rows+e.rows] = 1
+		if e.model.Orientation == Input {
+			a[e.cols*rows+e.rows] = 1
+		} else {
+			a[e.cols*rows+e.rows] = -1
+		}
+		c := make([]float64, cols)
+		ms := e.sc.m + e.sc.s
+		for j := e.slack0; j < e.slack0+ms; j++ {
+			c[j] = -1
+		}
+		e.prob2 = lp.Problem{Rows: rows, A: a, B: make([]float64, rows), C: c}
 	}
-	a[0*rows+e.rows] = 1
-	if e.model.Orientation == Input {
-		a[e.cols*rows+e.rows] = 1
-	} else {
-		a[e.cols*rows+e.rows] = -1
+	// Bring the columns solve changes up to date: the score column, the
+	// extra column, and a lambda column hidden now or the last time.
+	a := e.prob2.A
+	for _, j := range [...]int{0, e.extra, e.dirty, hidden} {
+		if j >= 0 {
+			copy(a[j*rows:j*rows+e.rows], e.prob.A[j*e.rows:(j+1)*e.rows])
+		}
 	}
-	b := append(append([]float64(nil), e.prob.B...), first.X[0])
-	c := make([]float64, cols)
-	ms := e.sc.m + e.sc.s
-	for j := e.slack0; j < e.slack0+ms; j++ {
-		c[j] = -1
-	}
+	e.dirty = hidden
+	copy(e.prob2.B, e.prob.B)
+	e.prob2.B[e.rows] = first.X[0]
 	basis := append(append([]int(nil), first.Basis...), e.cols)
 	for _, j := range basis {
 		if j < 0 {
@@ -356,5 +427,5 @@ func (e *envelope) secondStage(first *lp.Solution) (*lp.Solution, error) {
 			break
 		}
 	}
-	return lp.Solve(&lp.Problem{Rows: rows, A: a, B: b, C: c}, &lp.Options{Basis: basis, NoScale: true, Checked: true})
+	return e.ws2.Solve(&e.prob2, &lp.Options{Basis: basis, NoScale: true, Checked: true, NoReducedCosts: true})
 }

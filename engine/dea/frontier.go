@@ -34,6 +34,14 @@ const keepAbove = 1 - 1e-6
 // several optimal combinations (the peers, when they are not unique) can
 // differ, always in favour of units in C.
 //
+// After the block rounds every candidate is evaluated once against the
+// whole candidate set, and those scoring below 1 are dropped together. That
+// too keeps the technology: its extreme points are units of C that no convex
+// combination of C dominates, so they all score 1 and stay.
+//
+// Screening needs only to know whether a score is below 1, so each program
+// stops as soon as a combination proves it is (lp.Options.Cutoff).
+//
 // Super-efficiency leaves the unit out of its own reference set, which can
 // break this argument for units of C, so it is solved with column generation
 // over all units instead (see Run).
@@ -64,6 +72,7 @@ func frontier(ctx context.Context, sc *scaled) ([]int, error) {
 			lo, hi := b*len(cand)/nb, (b+1)*len(cand)/nb
 			block := append([]int(nil), cand[lo:hi]...)
 			env := newEnvelope(sc, block, m)
+			env.cutoff = keepAbove
 			for _, j := range block {
 				p, err := env.solve(sc.x[j], sc.y[j], j, false, false)
 				if err != nil || p.score > keepAbove {
@@ -78,5 +87,17 @@ func frontier(ctx context.Context, sc *scaled) ([]int, error) {
 		}
 	}
 	slices.Sort(cand)
-	return cand, nil
+	env := newEnvelope(sc, cand, m)
+	env.cutoff = keepAbove
+	var kept []int
+	for _, j := range cand {
+		if err := ctx.Err(); err != nil {
+			return nil, err
+		}
+		p, err := env.solve(sc.x[j], sc.y[j], j, false, false)
+		if err != nil || p.score > keepAbove {
+			kept = append(kept, j)
+		}
+	}
+	return kept, nil
 }

@@ -1,11 +1,13 @@
 package dea
 
 import (
+	"cmp"
 	"context"
 	"errors"
 	"fmt"
 	"math"
 	"runtime"
+	"slices"
 	"sync"
 )
 
@@ -199,6 +201,81 @@ func RunWith(ctx context.Context, d *Data, m Model, opt Options) (*Result, error
 	}
 	countPeers(res)
 	return res, nil
+}
+
+// nearOrder returns units sorted so that units next to each other in the
+// result are near each other where it matters for model m: in input
+// orientation the output levels and the input mix (inputs divided by their
+// sum), in output orientation the input levels and the output mix. The key
+// is the Morton (bit-interleaved) code of those coordinates, each rescaled
+// to the range of the data and cut to 64/k bits. Solving units in this
+// order lets each one start from the optimal bases of its predecessors.
+func nearOrder(sc *scaled, m Model, units []int) []int {
+	input := m.Orientation == Input
+	mix, level := sc.x, sc.y
+	if !input {
+		mix, level = sc.y, sc.x
+	}
+	k := len(level[0]) + len(mix[0]) - 1
+	if k <= 0 || len(units) < 2 {
+		return units
+	}
+	coord := func(j int, c []float64) {
+		c = c[:0]
+		c = append(c, level[j]...)
+		tot := 0.0
+		for _, v := range mix[j] {
+			tot += v
+		}
+		for _, v := range mix[j][:len(mix[j])-1] {
+			if tot > 0 {
+				v /= tot
+			}
+			c = append(c, v)
+		}
+	}
+	lo := make([]float64, k)
+	hi := make([]float64, k)
+	c := make([]float64, k)
+	for i := range lo {
+		lo[i], hi[i] = math.Inf(1), math.Inf(-1)
+	}
+	for _, j := range units {
+		coord(j, c)
+		for i, v := range c {
+			lo[i], hi[i] = math.Min(lo[i], v), math.Max(hi[i], v)
+		}
+	}
+	bits := min(64/k, 21)
+	top := float64(uint64(1)<<bits - 1)
+	type keyed struct {
+		key  uint64
+		unit int
+	}
+	ks := make([]keyed, len(units))
+	q := make([]uint64, k)
+	for n, j := range units {
+		coord(j, c)
+		for i, v := range c {
+			q[i] = 0
+			if w := hi[i] - lo[i]; w > 0 {
+				q[i] = uint64((v - lo[i]) / w * top)
+			}
+		}
+		var key uint64
+		for b := bits - 1; b >= 0; b-- {
+			for i := range q {
+				key = key<<1 | (q[i]>>b)&1
+			}
+		}
+		ks[n] = keyed{key, j}
+	}
+	slices.SortFunc(ks, func(a, b keyed) int { return cmp.Compare(a.key, b.key) })
+	out := make([]int, len(units))
+	for n, kk := range ks {
+		out[n] = kk.unit
+	}
+	return out
 }
 
 // countPeers sets PeerCount: how many other evaluated units name each unit.

@@ -5,7 +5,8 @@ import (
 	"fmt"
 	"math"
 
-	"gonum.org/v1/gonum/mat"
+	"gonum.org/v1/gonum/blas/blas64"
+	"gonum.org/v1/gonum/lapack/lapack64"
 )
 
 // Errors returned by Solve. They are wrapped with detail; test with errors.Is.
@@ -39,6 +40,10 @@ type Options struct {
 	// that the caller believes primal feasible. If it is singular or
 	// infeasible the solver falls back to phase 1.
 	Basis []int
+	// Starts are more starting bases (for example the optimal bases of
+	// similar problems solved just before). Of Starts and Basis, the
+	// nonsingular, primal feasible one with the least objective is used.
+	Starts [][]int
 	// MaxIter bounds the number of pivots (0: 50*(Rows+Cols)+1000).
 	MaxIter int
 	// NoScale turns off row and column scaling (for callers that scale
@@ -47,6 +52,15 @@ type Options struct {
 	// Checked says the caller has made sure every value is finite, which
 	// saves a pass over the matrix.
 	Checked bool
+	// NoReducedCosts leaves Solution.D empty, which saves a pass over the
+	// matrix for callers that do not read it.
+	NoReducedCosts bool
+	// HasCutoff makes phase 2 stop as soon as the objective falls below
+	// Cutoff: the Solution is then feasible but not optimal, Stopped is
+	// true and the error is nil. Screening callers that only need to know
+	// whether the optimum is below a value use it.
+	HasCutoff bool
+	Cutoff    float64
 }
 
 // Solution is an optimal basic solution, or on ErrInfeasible a Farkas
@@ -60,6 +74,24 @@ type Solution struct {
 	Iter   int       // pivots made, both phases
 	Phase1 bool      // whether phase 1 ran
 	Bland  int       // pivots made under Bland's rule
+	// Stopped says phase 2 stopped at Options.Cutoff before optimality.
+	Stopped bool
+}
+
+// Workspace keeps the buffers of a solver between solves, so that a caller
+// solving many programs of similar shape allocates (almost) nothing per
+// solve. Its zero value is ready to use; it must not be used by two
+// goroutines at once. The Solution returned by Workspace.Solve, and every
+// slice in it, belongs to the workspace and is overwritten by the next solve.
+type Workspace struct {
+	sv  solver
+	sol Solution
+}
+
+// Solve solves p like the package-level Solve, reusing w's buffers.
+func (w *Workspace) Solve(p *Problem, opt *Options) (*Solution, error) {
+	w.sol = Solution{X: w.sol.X, Y: w.sol.Y, D: w.sol.D, Basis: w.sol.Basis}
+	return w.sv.solve(p, opt, &w.sol)
 }
 
 // Tolerances, in the scaled problem.
@@ -94,52 +126,86 @@ type solver struct {
 	sinceRefactor        int
 	priceStart           int  // where partial pricing resumes
 	plain                bool // no scaling: columns are used as stored
+	cutoff               float64
+	hasCutoff, stopped   bool
+	// LU factorisation buffers (row-major m x m) and pivots.
+	lu, work []float64
+	ipiv     []int
+	rmax     []float64
+	yOld     []float64
+	// installed counts the entries of basis whose pos is set by tryBasis.
+	installed int
+}
+
+// grow returns v resized to n, reusing its storage when it is large enough.
+func grow[T any](v []T, n int) []T {
+	if cap(v) >= n {
+		return v[:n]
+	}
+	return make([]T, n)
 }
 
 // Solve solves p. It never panics on malformed input: shapes are checked and
 // reported as ErrShape.
 func Solve(p *Problem, opt *Options) (*Solution, error) {
-	if opt == nil {
-		opt = &Options{}
-	}
+	return new(solver).solve(p, opt, &Solution{})
+}
+
+// check reports a malformed problem.
+func check(p *Problem, opt *Options) error {
 	m, n := p.Rows, len(p.C)
 	if m <= 0 || len(p.B) != m || len(p.A) != m*n {
-		return nil, fmt.Errorf("%w: %d rows, %d costs, %d right-hand sides, %d matrix entries", ErrShape, m, n, len(p.B), len(p.A))
+		return fmt.Errorf("%w: %d rows, %d costs, %d right-hand sides, %d matrix entries", ErrShape, m, n, len(p.B), len(p.A))
 	}
 	if !opt.Checked {
 		for _, v := range p.A {
 			if math.IsNaN(v) || math.IsInf(v, 0) {
-				return nil, fmt.Errorf("%w: matrix holds %v", ErrShape, v)
+				return fmt.Errorf("%w: matrix holds %v", ErrShape, v)
 			}
 		}
 	}
 	for _, v := range p.B {
 		if math.IsNaN(v) || math.IsInf(v, 0) {
-			return nil, fmt.Errorf("%w: right-hand side holds %v", ErrShape, v)
+			return fmt.Errorf("%w: right-hand side holds %v", ErrShape, v)
 		}
 	}
 	for _, v := range p.C {
 		if math.IsNaN(v) || math.IsInf(v, 0) {
-			return nil, fmt.Errorf("%w: cost holds %v", ErrShape, v)
+			return fmt.Errorf("%w: cost holds %v", ErrShape, v)
 		}
 	}
-	sv := &solver{m: m, n: n, p: p}
+	return nil
+}
+
+// solve runs the method on p, reusing sv's buffers, and fills sol.
+func (sv *solver) solve(p *Problem, opt *Options, sol *Solution) (*Solution, error) {
+	if opt == nil {
+		opt = &Options{}
+	}
+	if err := check(p, opt); err != nil {
+		return nil, err
+	}
+	m, n := p.Rows, len(p.C)
+	sv.m, sv.n, sv.p = m, n, p
+	sv.iter, sv.bland, sv.sinceRefactor, sv.priceStart = 0, 0, 0, 0
+	sv.cutoff, sv.hasCutoff, sv.stopped = opt.Cutoff, false, false
 	sv.maxIter = opt.MaxIter
 	if sv.maxIter <= 0 {
 		sv.maxIter = 50*(m+n) + 1000
 	}
 	sv.scale(!opt.NoScale)
 	sv.plain = opt.NoScale
-	sv.basis = make([]int, m)
-	sv.pos = make([]int, n+m)
-	sv.binv = make([]float64, m*m)
-	sv.xb = make([]float64, m)
-	sv.y = make([]float64, m)
-	sv.alpha = make([]float64, m)
-	sv.col = make([]float64, m)
-	sv.cost = make([]float64, n+m)
-	sv.barred = make([]bool, n+m)
-	sv.artSign = make([]float64, m)
+	sv.basis = grow(sv.basis, m)
+	sv.pos = grow(sv.pos, n+m)
+	sv.binv = grow(sv.binv, m*m)
+	sv.xb = grow(sv.xb, m)
+	sv.y = grow(sv.y, m)
+	sv.alpha = grow(sv.alpha, m)
+	sv.col = grow(sv.col, m)
+	sv.cost = grow(sv.cost, n+m)
+	sv.barred = grow(sv.barred, n+m)
+	clear(sv.barred)
+	sv.artSign = grow(sv.artSign, m)
 	for i := range sv.artSign {
 		sv.artSign[i] = 1
 		if sv.b[i] < 0 {
@@ -147,11 +213,11 @@ func Solve(p *Problem, opt *Options) (*Solution, error) {
 		}
 	}
 
-	sol := &Solution{}
-	started := false
-	if len(opt.Basis) == m {
-		started = sv.tryBasis(opt.Basis)
+	for i := range sv.pos {
+		sv.pos[i] = -1
 	}
+	sv.installed = 0
+	started := sv.start(opt)
 	if !started {
 		sol.Phase1 = true
 		if err := sv.phase1(); err != nil {
@@ -169,11 +235,12 @@ func Solve(p *Problem, opt *Options) (*Solution, error) {
 		sv.cost[k] = 0
 		sv.barred[k] = true
 	}
+	sv.hasCutoff = opt.HasCutoff
 	if err := sv.optimise(); err != nil {
 		sol.Iter, sol.Bland = sv.iter, sv.bland
 		return sol, err
 	}
-	sv.fill(sol)
+	sv.fill(sol, !opt.NoReducedCosts)
 	return sol, nil
 }
 
@@ -181,9 +248,9 @@ func Solve(p *Problem, opt *Options) (*Solution, error) {
 // magnitude in every row and column of the scaled matrix is near 1.
 func (sv *solver) scale(on bool) {
 	m, n, a := sv.m, sv.n, sv.p.A
-	sv.r = make([]float64, m)
-	sv.s = make([]float64, n)
-	sv.b = make([]float64, m)
+	sv.r = grow(sv.r, m)
+	sv.s = grow(sv.s, n)
+	sv.b = grow(sv.b, m)
 	for i := range sv.r {
 		sv.r[i] = 1
 	}
@@ -191,7 +258,9 @@ func (sv *solver) scale(on bool) {
 		sv.s[j] = 1
 	}
 	if on {
-		rmax := make([]float64, m)
+		sv.rmax = grow(sv.rmax, m)
+		rmax := sv.rmax
+		clear(rmax)
 		for j := 0; j < n; j++ {
 			c := a[j*m : (j+1)*m]
 			for i, v := range c {
@@ -266,15 +335,17 @@ func (sv *solver) dotColumn(j int, v []float64) float64 {
 // tryBasis installs a caller's basis; it reports false when the basis is
 // singular or not primal feasible.
 func (sv *solver) tryBasis(basis []int) bool {
-	for i := range sv.pos {
-		sv.pos[i] = -1
+	for _, j := range sv.basis[:sv.installed] {
+		sv.pos[j] = -1
 	}
+	sv.installed = 0
 	for k, j := range basis {
 		if j < 0 || j >= sv.n || sv.pos[j] >= 0 {
 			return false
 		}
 		sv.basis[k] = j
 		sv.pos[j] = k
+		sv.installed = k + 1
 	}
 	if sv.refactor() != nil {
 		return false
@@ -287,29 +358,81 @@ func (sv *solver) tryBasis(basis []int) bool {
 	return true
 }
 
-// refactor recomputes the basis inverse and the basic values from scratch.
-func (sv *solver) refactor() error {
+// start installs the best of the caller's starting bases (Options.Starts
+// and Options.Basis): among those that are nonsingular and primal feasible,
+// the one with the least objective (the earliest on ties). It reports false
+// when none is usable.
+func (sv *solver) start(opt *Options) bool {
 	m := sv.m
-	B := mat.NewDense(m, m, nil)
-	for k, j := range sv.basis {
-		sv.column(j, sv.col)
-		for i := 0; i < m; i++ {
-			B.Set(i, k, sv.col[i])
+	best, bestObj, cur := -1, math.Inf(1), -1
+	basisAt := func(k int) []int {
+		if k < len(opt.Starts) {
+			return opt.Starts[k]
+		}
+		return opt.Basis
+	}
+	for k := 0; k <= len(opt.Starts); k++ {
+		b := basisAt(k)
+		if len(b) != m {
+			continue
+		}
+		cur = -1
+		if !sv.tryBasis(b) {
+			continue
+		}
+		cur = k
+		obj := 0.0
+		for i, j := range sv.basis {
+			obj += sv.p.C[j] * sv.s[j] * sv.xb[i]
+		}
+		if obj < bestObj-1e-12*math.Max(1, math.Abs(obj)) {
+			best, bestObj = k, obj
 		}
 	}
-	var lu mat.LU
-	lu.Factorize(B)
-	if c := lu.Cond(); c > 1e13 || math.IsNaN(c) || math.IsInf(c, 0) {
+	if best < 0 {
+		return false
+	}
+	if cur != best {
+		return sv.tryBasis(basisAt(best))
+	}
+	return true
+}
+
+// refactor recomputes the basis inverse and the basic values from scratch:
+// an LU factorisation with partial pivoting (gonum's lapack64.Getrf) and the
+// inverse from it (Getri). The basis is refused when its 1-norm condition
+// number, computed exactly from the basis and its inverse, exceeds 1e13.
+func (sv *solver) refactor() error {
+	m := sv.m
+	sv.lu = grow(sv.lu, m*m)
+	sv.ipiv = grow(sv.ipiv, m)
+	sv.work = grow(sv.work, 4*m*m)
+	bnorm := 0.0
+	for k, j := range sv.basis {
+		sv.column(j, sv.col)
+		cn := 0.0
+		for i := 0; i < m; i++ {
+			sv.lu[i*m+k] = sv.col[i]
+			cn += math.Abs(sv.col[i])
+		}
+		bnorm = math.Max(bnorm, cn)
+	}
+	g := blas64.General{Rows: m, Cols: m, Stride: m, Data: sv.lu}
+	if !lapack64.Getrf(g, sv.ipiv) || !lapack64.Getri(g, sv.ipiv, sv.work, len(sv.work)) {
+		return fmt.Errorf("%w: singular basis", ErrNumerical)
+	}
+	inorm := 0.0
+	for k := 0; k < m; k++ {
+		cn := 0.0
+		for i := 0; i < m; i++ {
+			cn += math.Abs(sv.lu[i*m+k])
+		}
+		inorm = math.Max(inorm, cn)
+	}
+	if c := bnorm * inorm; c > 1e13 || math.IsNaN(c) || math.IsInf(c, 0) {
 		return fmt.Errorf("%w: basis condition number %.3g", ErrNumerical, c)
 	}
-	inv := mat.NewDense(m, m, sv.binv)
-	eye := mat.NewDense(m, m, nil)
-	for i := 0; i < m; i++ {
-		eye.Set(i, i, 1)
-	}
-	if err := lu.SolveTo(inv, false, eye); err != nil {
-		return fmt.Errorf("%w: %v", ErrNumerical, err)
-	}
+	copy(sv.binv, sv.lu)
 	for i := 0; i < m; i++ {
 		t := 0.0
 		row := sv.binv[i*m : (i+1)*m]
@@ -464,13 +587,25 @@ func (sv *solver) optimise() error {
 		sv.computeDuals()
 		q, _ := sv.price(useBland)
 		if q < 0 {
-			// Optimal by the running inverse: confirm with a fresh one.
+			// Optimal by the running inverse: confirm with a fresh one. When
+			// the fresh duals equal the running ones to working accuracy the
+			// pricing pass just made stands; otherwise price again.
 			if sv.sinceRefactor == 0 || checks > 3 {
 				return sv.finalCheck()
 			}
 			checks++
+			sv.yOld = append(sv.yOld[:0], sv.y...)
 			if err := sv.refactor(); err != nil {
 				return err
+			}
+			sv.computeDuals()
+			diff, size := 0.0, 1.0
+			for i, v := range sv.y {
+				diff = math.Max(diff, math.Abs(v-sv.yOld[i]))
+				size = math.Max(size, math.Abs(v))
+			}
+			if diff <= 1e-13*size {
+				return sv.finalCheck()
 			}
 			continue
 		}
@@ -487,6 +622,10 @@ func (sv *solver) optimise() error {
 		obj := 0.0
 		for k, j := range sv.basis {
 			obj += sv.cost[j] * sv.xb[k]
+		}
+		if sv.hasCutoff && obj < sv.cutoff {
+			sv.stopped = true
+			return sv.finalCheck()
 		}
 		if obj < lastObj-1e-12*math.Max(1, math.Abs(obj)) {
 			lastObj = obj
@@ -642,11 +781,14 @@ func (sv *solver) unscaledDuals() []float64 {
 	return y
 }
 
-// fill writes the unscaled solution.
-func (sv *solver) fill(sol *Solution) {
+// fill writes the unscaled solution, reusing sol's slices; with reduced it
+// also computes the reduced costs.
+func (sv *solver) fill(sol *Solution, reduced bool) {
 	p := sv.p
-	sol.X = make([]float64, sv.n)
-	sol.Basis = make([]int, sv.m)
+	sol.X = grow(sol.X, sv.n)
+	clear(sol.X)
+	sol.Basis = grow(sol.Basis, sv.m)
+	obj := 0.0
 	for k, j := range sv.basis {
 		if j >= sv.n {
 			sol.Basis[k] = -1
@@ -658,24 +800,30 @@ func (sv *solver) fill(sol *Solution) {
 			v = 0
 		}
 		sol.X[j] = v * sv.s[j]
-	}
-	sol.Y = sv.unscaledDuals()
-	sol.D = make([]float64, sv.n)
-	obj := 0.0
-	for j := 0; j < sv.n; j++ {
-		c := p.A[j*sv.m : (j+1)*sv.m]
-		t := 0.0
-		for i, a := range c {
-			t += a * sol.Y[i]
-		}
-		sol.D[j] = p.C[j] - t
 		obj += p.C[j] * sol.X[j]
 	}
-	for _, j := range sol.Basis {
-		if j >= 0 {
-			sol.D[j] = 0
+	sv.computeDuals()
+	sol.Y = grow(sol.Y, sv.m)
+	for i, v := range sv.y {
+		sol.Y[i] = v * sv.r[i]
+	}
+	sol.D = sol.D[:0]
+	if reduced {
+		sol.D = grow(sol.D, sv.n)
+		for j := 0; j < sv.n; j++ {
+			c := p.A[j*sv.m : (j+1)*sv.m]
+			t := 0.0
+			for i, a := range c {
+				t += a * sol.Y[i]
+			}
+			sol.D[j] = p.C[j] - t
+		}
+		for _, j := range sol.Basis {
+			if j >= 0 {
+				sol.D[j] = 0
+			}
 		}
 	}
 	sol.Obj = obj
-	sol.Iter, sol.Bland = sv.iter, sv.bland
+	sol.Iter, sol.Bland, sol.Stopped = sv.iter, sv.bland, sv.stopped
 }
