@@ -112,15 +112,11 @@ func run(args []safejs.Value) (any, error) {
 }
 
 func explain(args []safejs.Value) (any, error) {
-	m, err := js.JSONArg(args, 0)
+	a, err := js.JSONArgs(args, 2)
 	if err != nil {
 		return nil, err
 	}
-	u, err := js.JSONArg(args, 1)
-	if err != nil {
-		return nil, err
-	}
-	return js.FromJSON(api.Explain(m, u))
+	return js.FromJSON(api.Explain(a[0], a[1]))
 }
 
 func describe(args []safejs.Value) (any, error) {
@@ -132,13 +128,9 @@ func describe(args []safejs.Value) (any, error) {
 }
 
 func exportCSV(args []safejs.Value) (any, error) {
-	s, err := js.JSONArg(args, 0)
+	a, err := js.JSONArgs(args, 2)
 	if err != nil {
 		return nil, err
 	}
-	r, err := js.JSONArg(args, 1)
-	if err != nil {
-		return nil, err
-	}
-	return api.ExportCSV(s, r)
+	return api.ExportCSV(a[0], a[1])
 }

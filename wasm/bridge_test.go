@@ -56,19 +56,6 @@ func stringify(t testing.TB, v safejs.Value) string {
 	return str
 }
 
-func errorOf(t testing.TB, v safejs.Value) string {
-	t.Helper()
-	if v.Type() != safejs.TypeObject {
-		return ""
-	}
-	e, err := v.Get("error")
-	if err != nil || e.IsUndefined() {
-		return ""
-	}
-	s, _ := e.String()
-	return s
-}
-
 // nativeDemo runs the demo study with the engine directly, without the
 // bridge.
 func nativeDemo(t testing.TB) (*study.Study, *dea.Result) {
@@ -115,7 +102,7 @@ func noNegativeZero(s string) string {
 
 func TestDemoRunMatchesNativeEngine(t *testing.T) {
 	demo := call(t, "demo")
-	if e := errorOf(t, demo); e != "" {
+	if e := js.ErrorOf(demo); e != "" {
 		t.Fatal(e)
 	}
 	s, err := api.ReadStudy([]byte(stringify(t, demo)))
@@ -148,7 +135,7 @@ func TestDemoRunMatchesNativeEngine(t *testing.T) {
 	}
 	defer progress.Release()
 	res := call(t, "run", demo, progress.Value())
-	if e := errorOf(t, res); e != "" {
+	if e := js.ErrorOf(res); e != "" {
 		t.Fatal(e)
 	}
 	if len(seen) == 0 || seen[len(seen)-1] != len(ns.Units) {
@@ -171,7 +158,7 @@ func TestDemoRunMatchesNativeEngine(t *testing.T) {
 	for k := range nr.Units {
 		u, _ := units.Index(k)
 		rep := call(t, "explain", model, u)
-		if e := errorOf(t, rep); e != "" {
+		if e := js.ErrorOf(rep); e != "" {
 			t.Fatalf("explain %d: %s", k, e)
 		}
 		summary, _ := rep.Get("summary")
@@ -184,7 +171,7 @@ func TestDemoRunMatchesNativeEngine(t *testing.T) {
 	csv := call(t, "exportCSV", demo, res)
 	got, err := csv.String()
 	if err != nil {
-		t.Fatalf("exportCSV: %v (%s)", err, errorOf(t, csv))
+		t.Fatalf("exportCSV: %v (%s)", err, js.ErrorOf(csv))
 	}
 	var wantCSV bytes.Buffer
 	if err := export.CSV(&wantCSV, ns, nr); err != nil {
@@ -197,7 +184,7 @@ func TestDemoRunMatchesNativeEngine(t *testing.T) {
 
 func TestParseAndRecords(t *testing.T) {
 	p := call(t, "parse", "unit;staff;visits\nA;10;100\nB;12;x\n")
-	if e := errorOf(t, p); e != "" {
+	if e := js.ErrorOf(p); e != "" {
 		t.Fatal(e)
 	}
 	want, err := api.Parse("unit;staff;visits\nA;10;100\nB;12;x\n")
@@ -210,12 +197,12 @@ func TestParseAndRecords(t *testing.T) {
 	}
 	recs, _ := safejs.ValueOf([]any{[]any{"unit", "staff", "visits"}, []any{"A", "10", "100"}, []any{"B", "12", "x"}})
 	r := call(t, "parseRecords", recs)
-	if e := errorOf(t, r); e != "" {
+	if e := js.ErrorOf(r); e != "" {
 		t.Fatal(e)
 	}
 	// The same cells as JSON text, the form the spreadsheet module sends.
 	r2 := call(t, "parseRecords", `[["unit","staff","visits"],["A","10","100"],["B","12","x"]]`)
-	if e := errorOf(t, r2); e != "" {
+	if e := js.ErrorOf(r2); e != "" {
 		t.Fatal(e)
 	}
 	st1, _ := p.Get("study")
@@ -251,7 +238,7 @@ func TestSubsetRun(t *testing.T) {
 	demo := call(t, "demo")
 	units, _ := safejs.ValueOf([]any{2, 0})
 	res := call(t, "run", demo, safejs.Null(), units)
-	if e := errorOf(t, res); e != "" {
+	if e := js.ErrorOf(res); e != "" {
 		t.Fatal(e)
 	}
 	_, nr := nativeDemo(t)
@@ -285,7 +272,7 @@ func TestErrorsComeBackAsMessages(t *testing.T) {
 		{"parseRecords", []any{42}, ""},
 	} {
 		v := call(t, tc.name, tc.args...)
-		e := errorOf(t, v)
+		e := js.ErrorOf(v)
 		if e == "" || !strings.Contains(e, tc.want) {
 			t.Errorf("%s(%v) = %s, want an error containing %q", tc.name, tc.args, stringify(t, v), tc.want)
 		}
@@ -293,7 +280,7 @@ func TestErrorsComeBackAsMessages(t *testing.T) {
 	// A panic inside a handler is recovered at the boundary.
 	f := js.Guard("boom", func([]safejs.Value) (any, error) { panic("boom") })
 	v := f(safejs.Undefined(), nil).(safejs.Value)
-	if e := errorOf(t, v); !strings.Contains(e, "internal error in boom: boom") {
+	if e := js.ErrorOf(v); !strings.Contains(e, "internal error in boom: boom") {
 		t.Errorf("panic gave %q", e)
 	}
 }

@@ -63,11 +63,7 @@ func read(args []safejs.Value) (any, error) {
 }
 
 func write(args []safejs.Value) (any, error) {
-	s, err := js.JSONArg(args, 0)
-	if err != nil {
-		return nil, err
-	}
-	r, err := js.JSONArg(args, 1)
+	a, err := js.JSONArgs(args, 2)
 	if err != nil {
 		return nil, err
 	}
@@ -81,7 +77,7 @@ func write(args []safejs.Value) (any, error) {
 			return nil, err
 		}
 	}
-	b, err := book.Write(s, r, date)
+	b, err := book.Write(a[0], a[1], date)
 	if err != nil {
 		return nil, err
 	}

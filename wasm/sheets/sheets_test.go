@@ -12,6 +12,7 @@ import (
 
 	"peerlens/engine/study"
 	"peerlens/wasm/api"
+	js "peerlens/wasm/internal/jsbridge"
 )
 
 func sheets(t *testing.T) safejs.Value {
@@ -24,18 +25,6 @@ func sheets(t *testing.T) safejs.Value {
 		t.Fatal(err)
 	}
 	return g
-}
-
-func errorOf(v safejs.Value) string {
-	if v.Type() != safejs.TypeObject {
-		return ""
-	}
-	e, err := v.Get("error")
-	if err != nil || e.IsUndefined() {
-		return ""
-	}
-	s, _ := e.String()
-	return s
 }
 
 // write gives a Uint8Array holding a workbook that read gives back: the
@@ -51,7 +40,7 @@ func TestWriteAndReadThroughJS(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if e := errorOf(wb); e != "" {
+	if e := js.ErrorOf(wb); e != "" {
 		t.Fatal(e)
 	}
 	n, _ := wb.Length()
@@ -62,7 +51,7 @@ func TestWriteAndReadThroughJS(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if e := errorOf(got); e != "" {
+	if e := js.ErrorOf(got); e != "" {
 		t.Fatal(e)
 	}
 	sheet, _ := got.Get("sheet")
@@ -99,7 +88,7 @@ func TestErrorsAreMessages(t *testing.T) {
 		if err != nil {
 			t.Fatalf("%s threw: %v", tc.fn, err)
 		}
-		if e := errorOf(v); e == "" || !strings.Contains(e, tc.want) {
+		if e := js.ErrorOf(v); e == "" || !strings.Contains(e, tc.want) {
 			t.Errorf("%s(%v) error %q, want one containing %q", tc.fn, tc.args, e, tc.want)
 		}
 	}

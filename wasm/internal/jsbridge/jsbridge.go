@@ -167,3 +167,29 @@ func Bytes(b []byte) (safejs.Value, error) {
 	_, err = safejs.CopyBytesToJS(arr, b)
 	return arr, err
 }
+
+// JSONArgs returns the first n arguments as JSON text (see JSONArg).
+func JSONArgs(args []safejs.Value, n int) ([][]byte, error) {
+	out := make([][]byte, n)
+	for i := range out {
+		b, err := JSONArg(args, i)
+		if err != nil {
+			return nil, err
+		}
+		out[i] = b
+	}
+	return out, nil
+}
+
+// ErrorOf returns the message of an {error: message} reply, or "".
+func ErrorOf(v safejs.Value) string {
+	if v.Type() != safejs.TypeObject {
+		return ""
+	}
+	e, err := v.Get("error")
+	if err != nil || e.Type() != safejs.TypeString {
+		return ""
+	}
+	s, _ := e.String()
+	return s
+}
