@@ -30,7 +30,7 @@ const (
 // the package-level functions do; the page uses the fields to let the user
 // overrule a guess.
 type Options struct {
-	Delimiter rune    // '\t', ';' or ','; 0 detects
+	Delimiter rune    // '\t', ';', ',' or '|'; 0 (or anything else) detects
 	Decimal   Decimal // the decimal mark for every column, or DecimalAuto
 	Header    Header  // whether the first non-blank row is a header
 }
