@@ -37,9 +37,9 @@ func newReader(s string, delim byte) *reader {
 
 // readAll reads up to limit records (all when limit <= 0).
 func (r *reader) readAll(limit int) []record {
-	n := strings.Count(r.s, "\n") + 1
-	if limit > 0 {
-		n = min(n, limit)
+	n := limit
+	if n <= 0 {
+		n = strings.Count(r.s, "\n") + 1
 	}
 	recs := make([]record, 0, n)
 	for r.pos < len(r.s) && (limit <= 0 || len(recs) < limit) {
