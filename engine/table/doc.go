@@ -52,7 +52,11 @@
 // #DIV/0! in a numeric column are missing values (NaN, warning); text is
 // "not a number" (NaN, error). Blank rows are left out and noted; short rows
 // are padded and warned about; rows of text among numbers are kept and their
-// cells reported. Nothing typed is dropped without a word.
+// cells reported. A row so much wider than the rest that padding every row
+// to it would make the table mostly empty (a broken paste) is cut to the
+// table's width with an error naming what was not read. Nothing typed is
+// dropped without a word. Cell problems are reported for numeric columns;
+// a text column's Values hold whatever of it reads as numbers, NaN elsewhere.
 //
 // Positions: Problem.Row and Row.Line are record numbers counted from 1
 // with the header and blank rows included, which is the spreadsheet's row
