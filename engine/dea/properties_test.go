@@ -310,6 +310,9 @@ func TestCertificatesFromReportedWeights(t *testing.T) {
 			if !u.Cert.Verified {
 				t.Errorf("%s, %s, unit %d: certificate not verified: %+v", nm.Name, c, u.Index, u.Cert)
 			}
+			if u.SuperCert != nil && !u.SuperCert.Verified {
+				t.Errorf("%s, %s, unit %d: super-efficiency certificate not verified: %+v", nm.Name, c, u.Index, *u.SuperCert)
+			}
 			for _, bad := range checkDual(c.Data, nm.Model, u) {
 				t.Errorf("%s, %s, unit %d: %s", nm.Name, c, u.Index, bad)
 			}
