@@ -9,6 +9,8 @@ import (
 	"strings"
 
 	"github.com/xuri/excelize/v2"
+
+	"peerlens/engine/table"
 )
 
 // Sentinel errors, for errors.Is.
@@ -51,20 +53,24 @@ func ReadXLSXSheet(r io.Reader, name string) ([][]string, []string, error) {
 	if err != nil {
 		return nil, names, fmt.Errorf("%w: sheet %q: %v", ErrNotWorkbook, name, err)
 	}
+	shown, err := f.GetRows(name)
+	if err != nil {
+		return nil, names, fmt.Errorf("%w: sheet %q: %v", ErrNotWorkbook, name, err)
+	}
 	d := newDates(f)
 	for i, row := range raw {
 		for j, v := range row {
-			if v == "" {
-				continue
-			}
-			cell, err := excelize.CoordinatesToCellName(j+1, i+1)
-			if err != nil {
-				continue
-			}
-			row[j] = d.text(name, cell, v)
+			row[j] = d.text(name, i, j, v, cellAt(shown, i, j))
 		}
 	}
 	return raw, names, nil
+}
+
+func cellAt(rows [][]string, i, j int) string {
+	if i < len(rows) && j < len(rows[i]) {
+		return rows[i][j]
+	}
+	return ""
 }
 
 func isEncrypted(err error) bool { return strings.Contains(strings.ToLower(err.Error()), "encrypt") }
@@ -78,7 +84,8 @@ func quoteAll(names []string) []string {
 }
 
 // dates turns the stored value of a cell into its text: date and time cells
-// into ISO text, true/false cells into TRUE/FALSE, other cells unchanged.
+// into ISO text, true/false cells into TRUE/FALSE, other cells unchanged. It
+// remembers which cell styles show dates.
 type dates struct {
 	f        *excelize.File
 	date1904 bool
@@ -93,20 +100,35 @@ func newDates(f *excelize.File) *dates {
 	return d
 }
 
-func (d *dates) text(sheet, cell, v string) string {
-	num, err := strconv.ParseFloat(v, 64)
-	if err != nil {
-		return v // text, or an error such as #DIV/0!
+// text chooses a cell's text from its stored value and the value as the
+// spreadsheet shows it. The stored value is kept unless it is a number shown
+// as TRUE or FALSE, or as something that is not a number; only then is the
+// cell's number format looked up (which makes excelize read the whole sheet
+// into memory), to turn a date or time into ISO text.
+func (d *dates) text(sheet string, i, j int, stored, shown string) string {
+	if stored == "" || stored == shown {
+		return stored
 	}
-	if t, err := d.f.GetCellType(sheet, cell); err == nil && t == excelize.CellTypeBool {
-		if num != 0 {
-			return "TRUE"
-		}
-		return "FALSE"
+	num, err := strconv.ParseFloat(stored, 64)
+	if err != nil {
+		return stored // text, or an error such as #DIV/0!
+	}
+	if shown == "TRUE" || shown == "FALSE" {
+		return shown
+	}
+	if _, err := table.ParseNumber(shown, false); err == nil {
+		return stored // a number formatted with separators, currency or percent
+	}
+	if _, err := table.ParseNumber(shown, true); err == nil {
+		return stored
+	}
+	cell, err := excelize.CoordinatesToCellName(j+1, i+1)
+	if err != nil {
+		return stored
 	}
 	style, err := d.f.GetCellStyle(sheet, cell)
 	if err != nil || style == 0 {
-		return v
+		return stored
 	}
 	isDate, ok := d.isDate[style]
 	if !ok {
@@ -116,9 +138,9 @@ func (d *dates) text(sheet, cell, v string) string {
 		d.isDate[style] = isDate
 	}
 	if !isDate {
-		return v
+		return stored
 	}
-	return isoDate(num, d.date1904, v)
+	return isoDate(num, d.date1904, stored)
 }
 
 // isoDate writes a date serial as ISO text: the date, the time, or both.
