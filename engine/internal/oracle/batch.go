@@ -40,26 +40,46 @@ func merge(name string, ps []*Problem) (*Problem, []int, error) {
 	return out, first, nil
 }
 
+// solveMerged builds one problem per unit with build, solves them merged in
+// one glpsol process and returns the solution with each block's problem,
+// lambda columns and first variable.
+func solveMerged(ctx context.Context, name string, units []int, opt Options,
+	build func(k, o int) (*Problem, []int, error)) (sol *Solution, ps []*Problem, cols [][]int, first []int, err error) {
+	ps = make([]*Problem, len(units))
+	cols = make([][]int, len(units))
+	for k, o := range units {
+		if ps[k], cols[k], err = build(k, o); err != nil {
+			return nil, nil, nil, nil, err
+		}
+	}
+	big, first, err := merge(fmt.Sprintf("%s_batch_u%d_%d", name, units[0], len(units)), ps)
+	if err != nil {
+		return nil, nil, nil, nil, err
+	}
+	sol, err = Solve(ctx, big, opt)
+	return sol, ps, cols, first, err
+}
+
+// lambdaAt reads a block's lambdas (per unit of the data) from sol.
+func lambdaAt(sol *Solution, n int, col []int, first int) []float64 {
+	l := make([]float64, n)
+	for j, c := range col {
+		if c >= 0 {
+			l[j] = sol.Values[first+c]
+		}
+	}
+	return l
+}
+
 // SolveRadialBatch solves the radial LPs of several units in one glpsol
 // process (see merge). It is for LPs that are always feasible (the unit
 // itself is a feasible combination), not for super-efficiency; if glpsol
 // finds the merged problem infeasible or unbounded, each unit is solved on
 // its own so that the report names the unit.
 func SolveRadialBatch(ctx context.Context, X, Y [][]float64, units []int, s Spec, opt Options) ([]Radial, error) {
-	ps := make([]*Problem, len(units))
-	cols := make([][]int, len(units))
-	for k, o := range units {
-		p, col, err := RadialProblem(X, Y, o, s)
-		if err != nil {
-			return nil, err
-		}
-		ps[k], cols[k] = p, col
-	}
-	big, first, err := merge(fmt.Sprintf("radial_batch_u%d_%d", units[0], len(units)), ps)
-	if err != nil {
-		return nil, err
-	}
-	sol, err := Solve(ctx, big, opt)
+	sol, _, cols, first, err := solveMerged(ctx, "radial", units, opt, func(_, o int) (*Problem, []int, error) {
+		return RadialProblem(X, Y, o, s)
+	})
 	if err != nil {
 		return nil, err
 	}
@@ -73,13 +93,7 @@ func SolveRadialBatch(ctx context.Context, X, Y [][]float64, units []int, s Spec
 		return out, nil
 	}
 	for k := range units {
-		r := Radial{Feasible: true, Value: sol.Values[first[k]], Lambda: make([]float64, len(X))}
-		for j, c := range cols[k] {
-			if c >= 0 {
-				r.Lambda[j] = sol.Values[first[k]+c]
-			}
-		}
-		out[k] = r
+		out[k] = Radial{Feasible: true, Value: sol.Values[first[k]], Lambda: lambdaAt(sol, len(X), cols[k], first[k])}
 	}
 	return out, nil
 }
@@ -89,20 +103,9 @@ func SolveRadialBatch(ctx context.Context, X, Y [][]float64, units []int, s Spec
 // the merged problem anything but optimal, each unit goes through
 // SolveSlacks on its own (which relaxes the fixed value when needed).
 func SolveSlacksBatch(ctx context.Context, X, Y [][]float64, units []int, s Spec, radial []float64, opt Options) ([]Slacks, error) {
-	ps := make([]*Problem, len(units))
-	cols := make([][]int, len(units))
-	for k, o := range units {
-		p, col, err := SecondStageProblem(X, Y, o, s, radial[k], 0)
-		if err != nil {
-			return nil, err
-		}
-		ps[k], cols[k] = p, col
-	}
-	big, first, err := merge(fmt.Sprintf("slack_batch_u%d_%d", units[0], len(units)), ps)
-	if err != nil {
-		return nil, err
-	}
-	sol, err := Solve(ctx, big, opt)
+	sol, ps, cols, first, err := solveMerged(ctx, "slack", units, opt, func(k, o int) (*Problem, []int, error) {
+		return SecondStageProblem(X, Y, o, s, radial[k], 0)
+	})
 	if err != nil {
 		return nil, err
 	}
@@ -118,12 +121,7 @@ func SolveSlacksBatch(ctx context.Context, X, Y [][]float64, units []int, s Spec
 	m, q := len(X[0]), len(Y[0])
 	for k := range units {
 		p, f := ps[k], first[k]
-		sl := Slacks{Radial: radial[k], Lambda: make([]float64, len(X))}
-		for j, c := range cols[k] {
-			if c >= 0 {
-				sl.Lambda[j] = sol.Values[f+c]
-			}
-		}
+		sl := Slacks{Radial: radial[k], Lambda: lambdaAt(sol, len(X), cols[k], f)}
 		for v, pv := range p.Vars {
 			sl.Weighted += pv.Obj * sol.Values[f+v]
 		}

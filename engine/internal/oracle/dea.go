@@ -115,35 +115,32 @@ func RadialProblem(X, Y [][]float64, o int, s Spec) (*Problem, []int, error) {
 	}
 	col := lambdas(p, len(X), o, s)
 	for i := range X[o] {
-		r := Row{Name: "in" + strconv.Itoa(i), Op: LE}
-		for j, c := range col {
-			if c >= 0 && X[j][i] != 0 {
-				r.Terms = append(r.Terms, Term{X[j][i], c})
-			}
-		}
-		if s.Output {
-			r.RHS = X[o][i]
-		} else if X[o][i] != 0 {
-			r.Terms = append(r.Terms, Term{-X[o][i], t})
-		}
-		p.AddRow(r)
+		p.AddRow(measureRow("in"+strconv.Itoa(i), LE, X, i, o, col, t, !s.Output))
 	}
 	for k := range Y[o] {
-		r := Row{Name: "out" + strconv.Itoa(k), Op: GE}
-		for j, c := range col {
-			if c >= 0 && Y[j][k] != 0 {
-				r.Terms = append(r.Terms, Term{Y[j][k], c})
-			}
-		}
-		if !s.Output {
-			r.RHS = Y[o][k]
-		} else if Y[o][k] != 0 {
-			r.Terms = append(r.Terms, Term{-Y[o][k], t})
-		}
-		p.AddRow(r)
+		p.AddRow(measureRow("out"+strconv.Itoa(k), GE, Y, k, o, col, t, s.Output))
 	}
 	returnsRows(p, col, s)
 	return p, col, nil
+}
+
+// measureRow is the row of measure k (of M, inputs or outputs):
+// sum_j lambda_j M[j][k] op M[o][k], with the right-hand side multiplied by
+// the radial variable t (and moved to the left) on the radial side.
+func measureRow(name string, op Op, M [][]float64, k, o int, col []int, t int, radial bool) Row {
+	r := Row{Name: name, Op: op}
+	for j, c := range col {
+		if c >= 0 && M[j][k] != 0 {
+			r.Terms = append(r.Terms, Term{M[j][k], c})
+		}
+	}
+	switch {
+	case !radial:
+		r.RHS = M[o][k]
+	case M[o][k] != 0:
+		r.Terms = append(r.Terms, Term{-M[o][k], t})
+	}
+	return r
 }
 
 // Radial is the oracle's answer for one unit's radial LP.
@@ -171,13 +168,7 @@ func SolveRadial(ctx context.Context, X, Y [][]float64, o int, s Spec, opt Optio
 	case Unbounded:
 		return Radial{}, fmt.Errorf("oracle: radial LP of unit %d is unbounded", o)
 	}
-	r := Radial{Feasible: true, Value: sol.Values[0], Lambda: make([]float64, len(X))}
-	for j, c := range col {
-		if c >= 0 {
-			r.Lambda[j] = sol.Values[c]
-		}
-	}
-	return r, nil
+	return Radial{Feasible: true, Value: sol.Values[0], Lambda: lambdaAt(sol, len(X), col, 0)}, nil
 }
 
 // Means returns the mean of each input and each output over all units:
@@ -225,18 +216,8 @@ func SecondStageProblem(X, Y [][]float64, o int, s Spec, radial, rel float64) (*
 			return nil, nil, fmt.Errorf("oracle: input %d has mean %g; the slack weights need a positive mean", i, m)
 		}
 		sv := p.AddVar(Var{Name: "si" + strconv.Itoa(i), Obj: 1 / m})
-		r := Row{Name: "in" + strconv.Itoa(i), Op: EQ}
-		for j, c := range col {
-			if c >= 0 && X[j][i] != 0 {
-				r.Terms = append(r.Terms, Term{X[j][i], c})
-			}
-		}
+		r := measureRow("in"+strconv.Itoa(i), EQ, X, i, o, col, t, !s.Output)
 		r.Terms = append(r.Terms, Term{1, sv})
-		if s.Output {
-			r.RHS = X[o][i]
-		} else if X[o][i] != 0 {
-			r.Terms = append(r.Terms, Term{-X[o][i], t})
-		}
 		p.AddRow(r)
 	}
 	for k, m := range my {
@@ -244,18 +225,8 @@ func SecondStageProblem(X, Y [][]float64, o int, s Spec, radial, rel float64) (*
 			return nil, nil, fmt.Errorf("oracle: output %d has mean %g; the slack weights need a positive mean", k, m)
 		}
 		sv := p.AddVar(Var{Name: "so" + strconv.Itoa(k), Obj: 1 / m})
-		r := Row{Name: "out" + strconv.Itoa(k), Op: EQ}
-		for j, c := range col {
-			if c >= 0 && Y[j][k] != 0 {
-				r.Terms = append(r.Terms, Term{Y[j][k], c})
-			}
-		}
+		r := measureRow("out"+strconv.Itoa(k), EQ, Y, k, o, col, t, s.Output)
 		r.Terms = append(r.Terms, Term{-1, sv})
-		if !s.Output {
-			r.RHS = Y[o][k]
-		} else if Y[o][k] != 0 {
-			r.Terms = append(r.Terms, Term{-Y[o][k], t})
-		}
 		p.AddRow(r)
 	}
 	returnsRows(p, col, s)
@@ -305,12 +276,7 @@ func SolveSlacks(ctx context.Context, X, Y [][]float64, o int, s Spec, radial fl
 		case Unbounded:
 			return Slacks{}, fmt.Errorf("oracle: second stage of unit %d is unbounded", o)
 		}
-		out := Slacks{Radial: radial, Weighted: sol.Objective, Lambda: make([]float64, len(X))}
-		for j, c := range col {
-			if c >= 0 {
-				out.Lambda[j] = sol.Values[c]
-			}
-		}
+		out := Slacks{Radial: radial, Weighted: sol.Objective, Lambda: lambdaAt(sol, len(X), col, 0)}
 		// The slack columns are the last m + q columns, inputs first.
 		m, q := len(X[0]), len(Y[0])
 		k := len(p.Vars) - m - q
