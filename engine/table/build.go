@@ -37,7 +37,8 @@ type Options struct {
 
 // Parse reads a table pasted from a spreadsheet or typed as CSV text. It
 // returns an error only when there is nothing to read (ErrEmpty); every
-// other problem is in Table.Problems.
+// other problem is in Table.Problems. Text that is not UTF-8 is decoded as
+// ParseBytes does.
 func Parse(text string) (*Table, error) { return Options{}.Parse(text) }
 
 // ParseBytes is Parse for bytes, such as a saved file: UTF-8 with or without
@@ -55,13 +56,13 @@ func FromRecords(records [][]string) (*Table, error) { return Options{}.FromReco
 
 // Parse is the package-level Parse with these options.
 func (o Options) Parse(text string) (*Table, error) {
-	s, p := decodeString(text)
+	s, p := decode(text)
 	return o.parse(s, p)
 }
 
 // ParseBytes is the package-level ParseBytes with these options.
 func (o Options) ParseBytes(b []byte) (*Table, error) {
-	s, p := decode(b)
+	s, p := decode(string(b))
 	return o.parse(s, p)
 }
 

@@ -269,8 +269,9 @@ func isBlank(fields []string) bool {
 // byte order mark (what spreadsheets save as "Unicode text"), UTF-8 with or
 // without a byte order mark, and, when the bytes are not valid UTF-8,
 // Windows-1252 (what spreadsheets save as plain CSV in Western Europe and the
-// Americas), which is reported.
-func decode(b []byte) (string, *Problem) {
+// Americas), which is reported. It takes the bytes as a string so that Parse
+// and ParseBytes read the same bytes the same way.
+func decode(b string) (string, *Problem) {
 	switch {
 	case len(b) >= 2 && b[0] == 0xFF && b[1] == 0xFE:
 		return fromUTF16(b[2:], false), nil
@@ -280,7 +281,7 @@ func decode(b []byte) (string, *Problem) {
 		// UTF-16 LE without a byte order mark: ASCII letters with zero high bytes.
 		return fromUTF16(b, false), nil
 	}
-	return decodeString(string(b))
+	return decodeString(b)
 }
 
 // decodeString removes a UTF-8 byte order mark and repairs text that is not
@@ -305,7 +306,7 @@ func decodeString(s string) (string, *Problem) {
 		"%w: the text is not UTF-8, so it was read as Windows-1252 (Western European); check accented letters and currency signs", ErrEncoding)}
 }
 
-func fromUTF16(b []byte, bigEndian bool) string {
+func fromUTF16(b string, bigEndian bool) string {
 	u := make([]uint16, len(b)/2)
 	for i := range u {
 		if bigEndian {

@@ -148,7 +148,7 @@ func TestDecode(t *testing.T) {
 		{"Windows-1252", []byte("Unit\tCost \x80\nZ\xFCrich\t1\n"), "Unit\tCost €\nZürich\t1\n", true},
 	}
 	for _, c := range cases {
-		got, p := decode(c.in)
+		got, p := decode(string(c.in))
 		if got != c.want {
 			t.Errorf("%s: decode = %q, want %q", c.name, got, c.want)
 		}
