@@ -130,7 +130,7 @@ export class Keeper {
     });
     $('make-link').addEventListener('click', () => this.makeLink());
     $('copy-link').addEventListener('click', () => this.copyLink());
-    $('unlock-form').addEventListener('submit', (e) => {
+    $('unlock').addEventListener('submit', (e) => {
       e.preventDefault();
       this.unlock();
     });
