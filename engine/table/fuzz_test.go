@@ -3,6 +3,7 @@ package table
 import (
 	"errors"
 	"math"
+	"reflect"
 	"strconv"
 	"strings"
 	"testing"
@@ -58,6 +59,9 @@ func FuzzParse(f *testing.F) {
 			t.Fatalf("ParseBytes failed where Parse did not: %v", err)
 		}
 		checkInvariants(t, bt)
+		if !reflect.DeepEqual(tab.Header, bt.Header) || !reflect.DeepEqual(tab.Rows, bt.Rows) || len(tab.Problems) != len(bt.Problems) {
+			t.Fatalf("Parse and ParseBytes disagree on %q", text)
+		}
 	})
 }
 

@@ -1,6 +1,9 @@
 package table
 
-import "testing"
+import (
+	"math"
+	"testing"
+)
 
 // checkInvariants asserts what every Table must satisfy, whatever the input.
 func checkInvariants(t *testing.T, tab *Table) {
@@ -53,6 +56,22 @@ func checkInvariants(t *testing.T, tab *Table) {
 		}
 		if p.Error() == "" || p.Reason() == "" {
 			t.Errorf("problem without text: %+v", p)
+		}
+	}
+	// Never silent: a numeric column's NaN always has a problem at its cell.
+	type at struct{ row, col int }
+	flagged := map[at]bool{}
+	for _, p := range tab.Problems {
+		flagged[at{p.Row, p.Column}] = true
+	}
+	for j, c := range tab.Columns {
+		if !c.Numeric {
+			continue
+		}
+		for i, v := range c.Values {
+			if math.IsNaN(v) && !flagged[at{tab.Rows[i].Line, j + 1}] {
+				t.Errorf("row %d, column %d (%q) is NaN with no problem reported", tab.Rows[i].Line, j+1, tab.Rows[i].Cells[j])
+			}
 		}
 	}
 }
