@@ -2,8 +2,8 @@ package dea
 
 import "math"
 
-// certTolerance bounds every violation of a verified certificate, in data
-// scaled per measure by its mean.
+// certTolerance bounds every violation of a verified certificate: each
+// residual is measured relative to the size of the terms it is made of.
 const certTolerance = 1e-7
 
 // fullCheckLimit is the study size up to which the dual check of every
@@ -27,19 +27,25 @@ func (e *envelope) certify(p *point, x0, y0 []float64, self int, checkSet []int)
 			*dst = v
 		}
 	}
-	// Primal: lambda and slacks non-negative; the rows hold.
+	// Primal: lambda and slacks non-negative; the rows hold. Each row's
+	// residual is measured against the size of the terms in it, so a row
+	// whose terms are all tiny cannot pass by being tiny.
 	sumX := make([]float64, sc.m)
 	sumY := make([]float64, sc.s)
-	sumL := 0.0
+	absX := make([]float64, sc.m)
+	absY := make([]float64, sc.s)
+	sumL, absL := 0.0, 0.0
 	add := func(j int, l float64) {
-		viol(&cert.PrimalError, -l)
 		for i := range sumX {
 			sumX[i] += l * sc.x[j][i]
+			absX[i] += math.Abs(l * sc.x[j][i])
 		}
 		for r := range sumY {
 			sumY[r] += l * sc.y[j][r]
+			absY[r] += math.Abs(l * sc.y[j][r])
 		}
 		sumL += l
+		absL += math.Abs(l)
 	}
 	for k, j := range e.ref {
 		add(j, p.lambda[k])
@@ -47,34 +53,37 @@ func (e *envelope) certify(p *point, x0, y0 []float64, self int, checkSet []int)
 	if p.self != 0 && self >= 0 {
 		add(self, p.self)
 	}
-	for _, v := range p.sIn {
-		viol(&cert.PrimalError, -v)
+	for k := range e.ref {
+		viol(&cert.PrimalError, -p.lambda[k]/math.Max(1, absL))
 	}
-	for _, v := range p.sOut {
-		viol(&cert.PrimalError, -v)
-	}
+	viol(&cert.PrimalError, -p.self/math.Max(1, absL))
 	for i := 0; i < sc.m; i++ {
 		rhs := x0[i]
 		if input {
 			rhs = p.score * x0[i]
 		}
-		viol(&cert.PrimalError, math.Abs(sumX[i]+p.sIn[i]-rhs)/(1+math.Abs(rhs)))
+		den := absX[i] + math.Abs(p.sIn[i]) + math.Abs(rhs)
+		viol(&cert.PrimalError, relative(sumX[i]+p.sIn[i]-rhs, den, true))
+		viol(&cert.PrimalError, relative(-p.sIn[i], den, false))
 	}
 	for r := 0; r < sc.s; r++ {
 		rhs := y0[r]
 		if !input {
 			rhs = p.score * y0[r]
 		}
-		viol(&cert.PrimalError, math.Abs(sumY[r]-p.sOut[r]-rhs)/(1+math.Abs(rhs)))
+		den := absY[r] + math.Abs(p.sOut[r]) + math.Abs(rhs)
+		viol(&cert.PrimalError, relative(sumY[r]-p.sOut[r]-rhs, den, true))
+		viol(&cert.PrimalError, relative(-p.sOut[r], den, false))
 	}
 	for _, r := range e.rr {
+		den := absL + r.rhs
 		switch r.sign {
 		case 0:
-			viol(&cert.PrimalError, math.Abs(sumL-r.rhs))
+			viol(&cert.PrimalError, relative(sumL-r.rhs, den, true))
 		case 1:
-			viol(&cert.PrimalError, sumL-r.rhs)
+			viol(&cert.PrimalError, relative(sumL-r.rhs, den, false))
 		case -1:
-			viol(&cert.PrimalError, r.rhs-sumL)
+			viol(&cert.PrimalError, relative(r.rhs-sumL, den, false))
 		}
 	}
 
@@ -112,9 +121,10 @@ func (e *envelope) certify(p *point, x0, y0 []float64, self int, checkSet []int)
 		dualObj = vx0 - wObj
 	}
 	for _, j := range checkSet {
-		viol(&cert.DualError, dot(u, sc.y[j])-dot(v, sc.x[j])+w)
+		uy, vx := dot(u, sc.y[j]), dot(v, sc.x[j])
+		viol(&cert.DualError, relative(uy-vx+w, math.Abs(uy)+math.Abs(vx)+math.Abs(w), false))
 	}
-	cert.Gap = math.Abs(p.score-dualObj) / (1 + math.Abs(p.score))
+	cert.Gap = relative(p.score-dualObj, math.Abs(p.score)+math.Abs(dualObj), true)
 	cert.Verified = cert.PrimalError <= certTolerance && cert.DualError <= certTolerance && cert.Gap <= certTolerance
 	return cert
 }
@@ -167,6 +177,19 @@ func (e *envelope) certifyInfeasible(y, x0, y0 []float64, checkSet []int) Certif
 	cert.Gap = yb
 	cert.Verified = yb > 0 && cert.DualError <= certTolerance*math.Max(1, yb)
 	return cert
+}
+
+// relative is v measured against the size den of the terms it came from
+// (absolute: |v|; otherwise v itself, so that negative values are no
+// violation); 0 when there is nothing to measure.
+func relative(v, den float64, absolute bool) float64 {
+	if absolute {
+		v = math.Abs(v)
+	}
+	if den == 0 || v <= 0 {
+		return math.Max(v, 0)
+	}
+	return v / den
 }
 
 func dot(a, b []float64) float64 {

@@ -4,7 +4,6 @@ import (
 	"errors"
 	"fmt"
 	"math"
-	"slices"
 
 	"peerlens/engine/lp"
 )
@@ -33,9 +32,19 @@ func scaleData(d *Data) *scaled {
 	sc.my = means(d.Y, sc.s)
 	sc.x = make([][]float64, n)
 	sc.y = make([][]float64, n)
+	// One backing array per side keeps the units next to each other in
+	// memory, which the passes over all units profit from.
+	xs := make([]float64, n*sc.m)
+	ys := make([]float64, n*sc.s)
 	for j := 0; j < n; j++ {
-		sc.x[j] = divide(d.X[j], sc.mx)
-		sc.y[j] = divide(d.Y[j], sc.my)
+		sc.x[j] = xs[j*sc.m : (j+1)*sc.m : (j+1)*sc.m]
+		sc.y[j] = ys[j*sc.s : (j+1)*sc.s : (j+1)*sc.s]
+		for i, v := range d.X[j] {
+			sc.x[j][i] = v / sc.mx[i]
+		}
+		for r, v := range d.Y[j] {
+			sc.y[j][r] = v / sc.my[r]
+		}
 	}
 	return sc
 }
@@ -123,40 +132,6 @@ type envelope struct {
 	// cutoff, when positive, stops the radial stage as soon as the score
 	// (input orientation) is proven below it: screening needs no more.
 	cutoff float64
-	// recent holds the radial stage's optimal bases of the last few units
-	// solved (see warm); they are offered to the solver as starting bases.
-	recent [][]int
-	warm   bool
-}
-
-// recentBases is how many recent optimal bases are offered as starts.
-const recentBases = 4
-
-// forget empties the recent bases, so that what follows does not depend on
-// what was solved before.
-func (e *envelope) forget() { e.recent = e.recent[:0] }
-
-// remember keeps an optimal basis of the radial stage for later starts,
-// unless it uses a column whose content depends on the unit (the score
-// column must be basic and is the same column; the extra column is not).
-func (e *envelope) remember(basis []int) {
-	for _, j := range basis {
-		if j < 0 || j == e.extra {
-			return
-		}
-	}
-	for _, b := range e.recent {
-		if slices.Equal(b, basis) {
-			return
-		}
-	}
-	if len(e.recent) < recentBases {
-		e.recent = append(e.recent, append([]int(nil), basis...))
-		return
-	}
-	last := e.recent[len(e.recent)-1]
-	copy(e.recent[1:], e.recent[:len(e.recent)-1])
-	e.recent[0] = append(last[:0], basis...)
 }
 
 func newEnvelope(sc *scaled, ref []int, m Model) *envelope {
@@ -301,10 +276,6 @@ func (e *envelope) solve(x, y []float64, self int, exclude, second bool) (*point
 	if selfCol >= 0 {
 		opt.Basis = e.selfBasis(x, y, selfCol)
 	}
-	warm := e.warm && hidden < 0 && !exclude
-	if warm {
-		opt.Starts = e.recent
-	}
 	sol, err := e.ws.Solve(&e.prob, &opt)
 	if err != nil {
 		if errors.Is(err, lp.ErrInfeasible) {
@@ -312,11 +283,8 @@ func (e *envelope) solve(x, y []float64, self int, exclude, second bool) (*point
 		}
 		return nil, err
 	}
-	if warm && !sol.Stopped {
-		e.remember(sol.Basis)
-	}
 	p := &point{score: sol.X[0], y: append([]float64(nil), sol.Y...), iter: sol.Iter, phase1: sol.Phase1, basis: append([]int(nil), sol.Basis...)}
-	if second {
+	if second && e.slacksMayMove(sol.Y) {
 		if sol2, err := e.secondStage(sol, hidden); err == nil {
 			p.iter += sol2.Iter
 			sol = sol2
@@ -330,6 +298,27 @@ func (e *envelope) solve(x, y []float64, self int, exclude, second bool) (*point
 	p.sIn = append([]float64(nil), sol.X[e.slack0:e.slack0+sc.m]...)
 	p.sOut = append([]float64(nil), sol.X[e.slack0+sc.m:e.slack0+sc.m+sc.s]...)
 	return p, nil
+}
+
+// slacksMayMove reports whether the second stage can find positive slacks.
+// It cannot when every input and output row has a dual value clearly away
+// from zero: the reduced cost of each slack column is then positive, so by
+// complementary slackness every slack is zero in every optimal solution of
+// the radial stage, and the radial stage's solution already has the
+// largest slack sum (zero).
+func (e *envelope) slacksMayMove(y []float64) bool {
+	const margin = 1e-9
+	for i := 0; i < e.sc.m; i++ {
+		if -y[i] <= margin {
+			return true
+		}
+	}
+	for r := 0; r < e.sc.s; r++ {
+		if y[e.sc.m+r] <= margin {
+			return true
+		}
+	}
+	return false
 }
 
 func zero(v []float64) {

@@ -1,13 +1,11 @@
 package dea
 
 import (
-	"cmp"
 	"context"
 	"errors"
 	"fmt"
 	"math"
 	"runtime"
-	"slices"
 	"sync"
 )
 
@@ -72,8 +70,51 @@ func CheckData(d *Data) error {
 				return fmt.Errorf("dea: unit %s, output %s: %w", d.name(j), d.measure(d.OutputNames, r, "output"), err)
 			}
 		}
+		// Semipositive data (Cooper, Seiford & Tone 2007, ch. 2): without a
+		// positive input and a positive output a radial score means nothing.
+		if !anyPositive(d.X[j]) {
+			return fmt.Errorf("dea: unit %s has no positive input; every unit needs one", d.name(j))
+		}
+		if !anyPositive(d.Y[j]) {
+			return fmt.Errorf("dea: unit %s has no positive output; every unit needs one", d.name(j))
+		}
+	}
+	if err := checkSpread(d.X, d.InputNames, "input"); err != nil {
+		return err
+	}
+	return checkSpread(d.Y, d.OutputNames, "output")
+}
+
+// maxSpread is the largest ratio between the largest and the smallest
+// positive value of one measure that double precision can hold apart: beyond
+// it the small values vanish in rounding next to the large ones.
+const maxSpread = 1e15
+
+func checkSpread(rows [][]float64, names []string, kind string) error {
+	if len(rows) == 0 {
+		return nil
+	}
+	for i := range rows[0] {
+		lo, hi := math.Inf(1), 0.0
+		for _, r := range rows {
+			if v := r[i]; v > 0 {
+				lo, hi = math.Min(lo, v), math.Max(hi, v)
+			}
+		}
+		if hi > 0 && hi/lo > maxSpread {
+			return fmt.Errorf("dea: %s %s runs from %g to %g, more than 15 orders of magnitude; the smallest values would be lost in rounding: check the data or change its units", kind, (&Data{}).measure(names, i, kind), lo, hi)
+		}
 	}
 	return nil
+}
+
+func anyPositive(v []float64) bool {
+	for _, x := range v {
+		if x > 0 {
+			return true
+		}
+	}
+	return false
 }
 
 func checkValue(v float64) error {
@@ -203,81 +244,6 @@ func RunWith(ctx context.Context, d *Data, m Model, opt Options) (*Result, error
 	return res, nil
 }
 
-// nearOrder returns units sorted so that units next to each other in the
-// result are near each other where it matters for model m: in input
-// orientation the output levels and the input mix (inputs divided by their
-// sum), in output orientation the input levels and the output mix. The key
-// is the Morton (bit-interleaved) code of those coordinates, each rescaled
-// to the range of the data and cut to 64/k bits. Solving units in this
-// order lets each one start from the optimal bases of its predecessors.
-func nearOrder(sc *scaled, m Model, units []int) []int {
-	input := m.Orientation == Input
-	mix, level := sc.x, sc.y
-	if !input {
-		mix, level = sc.y, sc.x
-	}
-	k := len(level[0]) + len(mix[0]) - 1
-	if k <= 0 || len(units) < 2 {
-		return units
-	}
-	coord := func(j int, c []float64) {
-		c = c[:0]
-		c = append(c, level[j]...)
-		tot := 0.0
-		for _, v := range mix[j] {
-			tot += v
-		}
-		for _, v := range mix[j][:len(mix[j])-1] {
-			if tot > 0 {
-				v /= tot
-			}
-			c = append(c, v)
-		}
-	}
-	lo := make([]float64, k)
-	hi := make([]float64, k)
-	c := make([]float64, k)
-	for i := range lo {
-		lo[i], hi[i] = math.Inf(1), math.Inf(-1)
-	}
-	for _, j := range units {
-		coord(j, c)
-		for i, v := range c {
-			lo[i], hi[i] = math.Min(lo[i], v), math.Max(hi[i], v)
-		}
-	}
-	bits := min(64/k, 21)
-	top := float64(uint64(1)<<bits - 1)
-	type keyed struct {
-		key  uint64
-		unit int
-	}
-	ks := make([]keyed, len(units))
-	q := make([]uint64, k)
-	for n, j := range units {
-		coord(j, c)
-		for i, v := range c {
-			q[i] = 0
-			if w := hi[i] - lo[i]; w > 0 {
-				q[i] = uint64((v - lo[i]) / w * top)
-			}
-		}
-		var key uint64
-		for b := bits - 1; b >= 0; b-- {
-			for i := range q {
-				key = key<<1 | (q[i]>>b)&1
-			}
-		}
-		ks[n] = keyed{key, j}
-	}
-	slices.SortFunc(ks, func(a, b keyed) int { return cmp.Compare(a.key, b.key) })
-	out := make([]int, len(units))
-	for n, kk := range ks {
-		out[n] = kk.unit
-	}
-	return out
-}
-
 // countPeers sets PeerCount: how many other evaluated units name each unit.
 func countPeers(res *Result) {
 	pos := make(map[int]int, len(res.Units))
@@ -307,6 +273,8 @@ type evaluator struct {
 	vrs  *envelope
 	nirs *envelope
 	all  []int // every unit, for full dual checks on small studies
+	// checkBuf is checkSet's buffer (one per evaluator, so per goroutine).
+	checkBuf []int
 }
 
 func newEvaluator(sc *scaled, d *Data, m Model, cand []int) *evaluator {
@@ -330,6 +298,7 @@ func newEvaluator(sc *scaled, d *Data, m Model, cand []int) *evaluator {
 
 func (ev *evaluator) clone() *evaluator {
 	c := *ev
+	c.checkBuf = nil
 	c.main = ev.main.clone()
 	if ev.crs != nil {
 		c.crs, c.vrs, c.nirs = ev.crs.clone(), ev.vrs.clone(), ev.nirs.clone()
@@ -346,7 +315,7 @@ func (ev *evaluator) checkSet(e *envelope, self int, exclude bool) []int {
 	if !exclude && (self < 0 || ev.all != nil) {
 		return base
 	}
-	out := make([]int, 0, len(base)+1)
+	out := ev.checkBuf[:0] // reused: the certificate does not keep it
 	for _, j := range base {
 		if !(exclude && j == self) {
 			out = append(out, j)
@@ -357,6 +326,7 @@ func (ev *evaluator) checkSet(e *envelope, self int, exclude bool) []int {
 			out = append(out, self)
 		}
 	}
+	ev.checkBuf = out
 	return out
 }
 
@@ -397,6 +367,11 @@ func (ev *evaluator) unit(o int) UnitResult {
 		u.Score = math.NaN()
 		u.Problem = plainProblem(err, m)
 		return u
+	}
+	// The unit itself is a feasible combination (score 1), so a score past 1
+	// can only be rounding: hold it at 1.
+	if (m.Orientation == Input && p.score > 1) || (m.Orientation == Output && p.score < 1) {
+		p.score = 1
 	}
 	u.Score = scoreOf(m, p.score)
 	if m.Orientation == Output {
