@@ -49,11 +49,45 @@ dist)
 	tmp=$(mktemp -d)
 	trap 'rm -rf "$tmp"' EXIT
 	build_wasm "$tmp"
-	go run ./site/dist -site site -wasm "$tmp/peerlens.wasm" -wasm-exec "$tmp/wasm_exec.js" -out dist/peerlens.html
+	go run ./site/dist -site site -wasm "$tmp/peerlens.wasm" -sheets "$tmp/peerlens-sheets.wasm" -wasm-exec "$tmp/wasm_exec.js" -out dist/peerlens.html
 	;;
 bench)
-	echo "build.sh bench: not yet" >&2
-	exit 2
+	# Speed side by side: the engine natively and as WebAssembly under Node,
+	# the per-unit HiGHS baseline and the floor, for each study size.
+	# BENCH_SIZES (default 1000,10000,100000) and BENCH_SAMPLE_<n> (units the
+	# baseline solves at size n) change the run. Everything goes to .cache/.
+	command -v node >/dev/null 2>&1 || need_packages
+	sizes=${BENCH_SIZES:-1000,10000,100000}
+	cache=.cache/bench-node
+	if [ ! -f "$cache/node_modules/highs/package.json" ]; then
+		echo "== installing the npm package highs into $cache"
+		mkdir -p "$cache"
+		(cd "$cache" && npm install --no-audit --no-fund --silent highs@1.15.3)
+	fi
+	out=.cache/bench-run
+	rm -rf "$out" && mkdir -p "$out"
+	go build -o "$out/peerbench" ./engine/cmd/peerbench
+	GOOS=js GOARCH=wasm go build -o "$out/peerbench.wasm" ./engine/cmd/peerbench
+	wasmexec="$(go env GOROOT)/lib/wasm/go_js_wasm_exec"
+	for n in ${sizes//,/ }; do
+		echo "== $n units: engine, native"
+		"$out/peerbench" -n "$n" | tee -a "$out/native.jsonl"
+		echo "== $n units: engine, WebAssembly under Node"
+		"$wasmexec" "$out/peerbench.wasm" -n "$n" | tee -a "$out/wasm.jsonl"
+		echo "== $n units: HiGHS, one unit at a time"
+		"$out/peerbench" -data "$out" -n "$n"
+		var="BENCH_SAMPLE_$n"
+		case "$n" in
+		1000) def=50 ;;
+		10000) def=10 ;;
+		*) def=3 ;;
+		esac
+		NODE_PATH="$cache/node_modules" node engine/bench/highs_baseline.js "$out/study-$n.json" "${!var:-$def}" | tee -a "$out/highs.jsonl"
+		rm -f "$out/study-$n.json"
+	done
+	echo
+	echo "== Results (wall-clock seconds and CPU seconds; ratios measured in this run)"
+	"$out/peerbench" -table "$out/native.jsonl" "$out/wasm.jsonl" "$out/highs.jsonl"
 	;;
 *)
 	echo "usage: ./build.sh serve|test|dist|bench" >&2

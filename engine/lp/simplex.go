@@ -40,10 +40,6 @@ type Options struct {
 	// that the caller believes primal feasible. If it is singular or
 	// infeasible the solver falls back to phase 1.
 	Basis []int
-	// Starts are more starting bases (for example the optimal bases of
-	// similar problems solved just before). Of Starts and Basis, the
-	// nonsingular, primal feasible one with the least objective is used.
-	Starts [][]int
 	// MaxIter bounds the number of pivots (0: 50*(Rows+Cols)+1000).
 	MaxIter int
 	// NoScale turns off row and column scaling (for callers that scale
@@ -217,7 +213,7 @@ func (sv *solver) solve(p *Problem, opt *Options, sol *Solution) (*Solution, err
 		sv.pos[i] = -1
 	}
 	sv.installed = 0
-	started := sv.start(opt)
+	started := len(opt.Basis) == m && sv.tryBasis(opt.Basis)
 	if !started {
 		sol.Phase1 = true
 		if err := sv.phase1(); err != nil {
@@ -354,46 +350,6 @@ func (sv *solver) tryBasis(basis []int) bool {
 		if v < -1e-7 {
 			return false
 		}
-	}
-	return true
-}
-
-// start installs the best of the caller's starting bases (Options.Starts
-// and Options.Basis): among those that are nonsingular and primal feasible,
-// the one with the least objective (the earliest on ties). It reports false
-// when none is usable.
-func (sv *solver) start(opt *Options) bool {
-	m := sv.m
-	best, bestObj, cur := -1, math.Inf(1), -1
-	basisAt := func(k int) []int {
-		if k < len(opt.Starts) {
-			return opt.Starts[k]
-		}
-		return opt.Basis
-	}
-	for k := 0; k <= len(opt.Starts); k++ {
-		b := basisAt(k)
-		if len(b) != m {
-			continue
-		}
-		cur = -1
-		if !sv.tryBasis(b) {
-			continue
-		}
-		cur = k
-		obj := 0.0
-		for i, j := range sv.basis {
-			obj += sv.p.C[j] * sv.s[j] * sv.xb[i]
-		}
-		if obj < bestObj-1e-12*math.Max(1, math.Abs(obj)) {
-			best, bestObj = k, obj
-		}
-	}
-	if best < 0 {
-		return false
-	}
-	if cur != best {
-		return sv.tryBasis(basisAt(best))
 	}
 	return true
 }
@@ -659,7 +615,26 @@ func (sv *solver) price(bland bool) (int, float64) {
 	plain := sv.plain
 	for scanned := 0; scanned < total; {
 		end := min(start+chunk, total)
-		for j := start; j < end; j++ {
+		if plain && !bland {
+			// The hot loop: structural columns as stored, basic columns
+			// (reduced cost zero in theory) skipped only when they would win.
+			cost, pos := sv.cost, sv.pos
+			for j := start; j < min(end, n); j++ {
+				col := a[j*m : j*m+m : j*m+m]
+				t := 0.0
+				for i, v := range col {
+					t += v * y[i]
+				}
+				if d := cost[j] - t; d < best && pos[j] < 0 {
+					q, best = j, d
+				}
+			}
+		}
+		lo := start
+		if plain && !bland {
+			lo = max(start, n) // structural columns were priced above
+		}
+		for j := lo; j < end; j++ {
 			if sv.pos[j] >= 0 || sv.barred[j] {
 				continue
 			}

@@ -37,13 +37,15 @@ import (
 type Measure struct {
 	Runtime     string  `json:"runtime"` // "native" or "wasm"
 	Units       int     `json:"units"`
-	Frontier    int     `json:"frontier"`    // candidate set size
-	Efficient   int     `json:"efficient"`   // units with score 1
-	Verified    int     `json:"verified"`    // units whose certificate holds
-	NotSolved   int     `json:"notSolved"`   // units whose program failed
-	EngineSec   float64 `json:"engineSec"`   // whole run
-	FrontierSec float64 `json:"frontierSec"` // candidate set alone
-	FloorSec    float64 `json:"floorSec"`    // bench.Floor over the candidate set
+	Frontier    int     `json:"frontier"`     // candidate set size
+	Efficient   int     `json:"efficient"`    // units with score 1
+	Verified    int     `json:"verified"`     // units whose certificate holds
+	NotSolved   int     `json:"notSolved"`    // units whose program failed
+	EngineSec   float64 `json:"engineSec"`    // whole run
+	FrontierSec float64 `json:"frontierSec"`  // candidate set alone
+	FloorSec    float64 `json:"floorSec"`     // bench.Floor over the candidate set
+	EngineCPU   float64 `json:"engineCPUSec"` // CPU time of the whole run
+	FloorCPU    float64 `json:"floorCPUSec"`  // CPU time of the floor
 	Workers     int     `json:"workers"`
 	GoSysMB     float64 `json:"goSysMB"`  // memory the Go runtime obtained from the system
 	MaxRSSMB    float64 `json:"maxRSSMB"` // the process's peak resident memory
@@ -55,10 +57,11 @@ type Baseline struct {
 	Runtime     string  `json:"runtime"` // "highs"
 	Units       int     `json:"units"`
 	Sampled     int     `json:"sampled"`
-	PerUnitSec  float64 `json:"perUnitSec"`   // both stages, text written and solved
-	SolveSec    float64 `json:"solveSec"`     // per unit, solver calls alone
-	TotalSec    float64 `json:"totalSec"`     // PerUnitSec * Units
-	MaxAbsDiff  float64 `json:"maxScoreDiff"` // largest |score - engine score| over the sample
+	PerUnitSec  float64 `json:"perUnitSec"`    // both stages, text written and solved
+	SolveSec    float64 `json:"solveSec"`      // per unit, solver calls alone
+	PerUnitCPU  float64 `json:"perUnitCPUSec"` // per unit, CPU time of the process
+	TotalSec    float64 `json:"totalSec"`      // PerUnitSec * Units
+	MaxAbsDiff  float64 `json:"maxScoreDiff"`  // largest |score - engine score| over the sample
 	MaxRSSMB    float64 `json:"maxRSSMB"`
 	Compared    int     `json:"compared"`
 	Description string  `json:"description"`
@@ -111,23 +114,25 @@ func measure(d *dea.Data, workers int) error {
 	}
 	frontierSec := time.Since(t0).Seconds()
 	runtime.GC()
-	t0 = time.Now()
+	t0, c0 := time.Now(), cpuSeconds()
 	res, err := dea.RunWith(ctx, d, model, dea.Options{Workers: workers})
 	if err != nil {
 		return err
 	}
-	engineSec := time.Since(t0).Seconds()
+	engineSec, engineCPU := time.Since(t0).Seconds(), cpuSeconds()-c0
 	// The floor is fast; repeat it until the timing is steady.
-	reps, floorSec := 0, 0.0
-	for t0 = time.Now(); reps < 3 || time.Since(t0) < 200*time.Millisecond; reps++ {
+	reps := 0
+	for t0, c0 = time.Now(), cpuSeconds(); reps < 3 || time.Since(t0) < 500*time.Millisecond; reps++ {
 		bench.Floor(d, res.Frontier)
 	}
-	floorSec = time.Since(t0).Seconds() / float64(reps)
+	floorSec := time.Since(t0).Seconds() / float64(reps)
+	floorCPU := (cpuSeconds() - c0) / float64(reps)
 	var ms runtime.MemStats
 	runtime.ReadMemStats(&ms)
 	m := Measure{
 		Runtime: "native", Units: len(d.X), Frontier: len(res.Frontier),
 		EngineSec: engineSec, FrontierSec: frontierSec, FloorSec: floorSec,
+		EngineCPU: engineCPU, FloorCPU: floorCPU,
 		Workers: workers, GoSysMB: float64(ms.Sys) / (1 << 20), MaxRSSMB: maxRSSMB(),
 	}
 	if runtime.GOOS == "js" {

@@ -12,3 +12,12 @@ func maxRSSMB() float64 {
 	}
 	return float64(ru.Maxrss) / 1024
 }
+
+// cpuSeconds is the CPU time (user and system) the process has used.
+func cpuSeconds() float64 {
+	var ru syscall.Rusage
+	if syscall.Getrusage(syscall.RUSAGE_SELF, &ru) != nil {
+		return 0
+	}
+	return float64(ru.Utime.Nano()+ru.Stime.Nano()) / 1e9
+}

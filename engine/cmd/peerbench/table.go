@@ -142,6 +142,21 @@ func printTable(w io.Writer, files []string) error {
 		b, okB := get(nat, n)
 		return ratio(a.EngineSec, b.EngineSec, okA, okB)
 	})
+	row("CPU: engine native, s", func(n int) string { m, ok := get(nat, n); return num(m.EngineCPU, ok, "%.3f") })
+	row("CPU: engine wasm, s", func(n int) string { m, ok := get(wasm, n); return num(m.EngineCPU, ok, "%.3f") })
+	row("CPU: HiGHS all units, s", func(n int) string { b, ok := base[n]; return num(b.PerUnitCPU*float64(b.Units), ok, "%.1f") })
+	row("CPU: baseline / engine native", func(n int) string {
+		b, okB := base[n]
+		m, ok := get(nat, n)
+		return ratio(b.PerUnitCPU*float64(b.Units), m.EngineCPU, okB, ok)
+	})
+	row("CPU: engine / floor, native", func(n int) string { m, ok := get(nat, n); return ratio(m.EngineCPU, m.FloorCPU, ok, ok) })
+	row("CPU: engine / floor, wasm", func(n int) string { m, ok := get(wasm, n); return ratio(m.EngineCPU, m.FloorCPU, ok, ok) })
+	row("CPU: wasm / native", func(n int) string {
+		a, okA := get(wasm, n)
+		b, okB := get(nat, n)
+		return ratio(a.EngineCPU, b.EngineCPU, okA, okB)
+	})
 	row("native peak RSS, MB", func(n int) string { m, ok := get(nat, n); return num(m.MaxRSSMB, ok, "%.0f") })
 	row("native Go memory, MB", func(n int) string { m, ok := get(nat, n); return num(m.GoSysMB, ok, "%.0f") })
 	row("wasm peak RSS (Node), MB", func(n int) string { m, ok := get(wasm, n); return num(m.MaxRSSMB, ok, "%.0f") })
