@@ -15,8 +15,11 @@
 //     from files either);
 //   - the WebAssembly engine, gzip-compressed and base64-encoded, which the
 //     loader unpacks with DecompressionStream and hands to the page as
-//     globalThis.peerlensOffline = {workerURL, wasm}; engine.js passes the
-//     bytes to the worker instead of fetching them.
+//     globalThis.peerlensOffline = {workerURL, wasm, sheets} (promises of
+//     ArrayBuffers; sheets is null without -sheets); engine.js passes the
+//     bytes to the worker instead of fetching them;
+//   - import.meta.url rewritten to document.baseURI, since a blob: module's
+//     own address cannot resolve relative addresses.
 //
 // The Content Security Policy of the file allows only the loader and the
 // styles by their SHA-256 hashes, blob: modules and workers, and WebAssembly;
@@ -44,10 +47,15 @@ import (
 func main() {
 	site := flag.String("site", "site", "folder of the page")
 	wasm := flag.String("wasm", "site/peerlens.wasm", "the engine compiled to WebAssembly")
+	sheets := flag.String("sheets", "", "the spreadsheet module compiled to WebAssembly (optional)")
 	wasmExec := flag.String("wasm-exec", "site/wasm_exec.js", "Go's wasm_exec.js")
 	out := flag.String("out", "dist/peerlens.html", "file to write")
 	flag.Parse()
-	page, err := Build(os.DirFS(*site), mustRead(*wasm), mustRead(*wasmExec))
+	var sheetsWasm []byte
+	if *sheets != "" {
+		sheetsWasm = mustRead(*sheets)
+	}
+	page, err := Build(os.DirFS(*site), mustRead(*wasm), sheetsWasm, mustRead(*wasmExec))
 	if err != nil {
 		log.Fatal(err)
 	}
@@ -86,7 +94,9 @@ type module struct {
 }
 
 // Build returns the single-file page.
-func Build(site fs.FS, wasm, wasmExec []byte) ([]byte, error) {
+// sheets, when not nil, is the spreadsheet module, offered the same way
+// as peerlensOffline.sheets.
+func Build(site fs.FS, wasm, sheets, wasmExec []byte) ([]byte, error) {
 	html, err := fs.ReadFile(site, "index.html")
 	if err != nil {
 		return nil, err
@@ -129,10 +139,12 @@ func Build(site fs.FS, wasm, wasmExec []byte) ([]byte, error) {
 	if err != nil {
 		return nil, err
 	}
-	var gz bytes.Buffer
-	zw, _ := gzip.NewWriterLevel(&gz, gzip.BestCompression)
-	zw.Write(wasm)
-	if err := zw.Close(); err != nil {
+	packed, err := pack(wasm)
+	if err != nil {
+		return nil, err
+	}
+	packedSheets, err := pack(sheets)
+	if err != nil {
 		return nil, err
 	}
 	modsJSON, err := json.Marshal(mods) // escapes <, > and & as \u003c...
@@ -146,7 +158,8 @@ func Build(site fs.FS, wasm, wasmExec []byte) ([]byte, error) {
 	loader := "\n" + loaderJS + "\n"
 	body := `<script type="application/json" id="peerlens-modules">` + string(modsJSON) + "</script>\n" +
 		`<script type="application/json" id="peerlens-worker">` + string(workerJSON) + "</script>\n" +
-		`<script type="application/octet-stream" id="peerlens-wasm">` + base64.StdEncoding.EncodeToString(gz.Bytes()) + "</script>\n" +
+		`<script type="application/octet-stream" id="peerlens-wasm">` + packed + "</script>\n" +
+		`<script type="application/octet-stream" id="peerlens-sheets">` + packedSheets + "</script>\n" +
 		"<script>" + loader + "</script>"
 	page = strings.Replace(page, m[0], "", 1)
 	page = strings.Replace(page, "</body>", body+"\n</body>", 1)
@@ -183,7 +196,9 @@ func collect(site fs.FS, name string) ([]module, error) {
 		if err != nil {
 			return 0, err
 		}
-		text := string(src)
+		// A blob: module's own address cannot resolve relative ones, so
+		// addresses are made relative to the page instead.
+		text := strings.ReplaceAll(string(src), "import.meta.url", "document.baseURI")
 		if dynamic.MatchString(text) {
 			return 0, fmt.Errorf("%s uses import(): the single-file build only follows static imports", name)
 		}
@@ -211,6 +226,22 @@ func collect(site fs.FS, name string) ([]module, error) {
 	return mods, nil
 }
 
+// pack gzips and base64-encodes a WebAssembly module ("" for none).
+func pack(wasm []byte) (string, error) {
+	if len(wasm) == 0 {
+		return "", nil
+	}
+	var gz bytes.Buffer
+	zw, _ := gzip.NewWriterLevel(&gz, gzip.BestCompression)
+	if _, err := zw.Write(wasm); err != nil {
+		return "", err
+	}
+	if err := zw.Close(); err != nil {
+		return "", err
+	}
+	return base64.StdEncoding.EncodeToString(gz.Bytes()), nil
+}
+
 // hash is the CSP source expression for an inline element's text.
 func hash(text string) string {
 	h := sha256.Sum256([]byte(text))
@@ -222,10 +253,16 @@ func hash(text string) string {
 const loaderJS = `(() => {
   'use strict';
   const data = (id) => document.getElementById(id).textContent;
-  const packed = Uint8Array.from(atob(data('peerlens-wasm')), (c) => c.charCodeAt(0));
-  const wasm = new Response(new Blob([packed]).stream().pipeThrough(new DecompressionStream('gzip'))).arrayBuffer();
+  const unpack = (id) => {
+    const text = data(id);
+    if (!text) return null;
+    const packed = Uint8Array.from(atob(text), (c) => c.charCodeAt(0));
+    return new Response(new Blob([packed]).stream().pipeThrough(new DecompressionStream('gzip'))).arrayBuffer();
+  };
+  const wasm = unpack('peerlens-wasm');
+  const sheets = unpack('peerlens-sheets');
   const workerURL = URL.createObjectURL(new Blob([JSON.parse(data('peerlens-worker'))], { type: 'text/javascript' }));
-  Object.defineProperty(globalThis, 'peerlensOffline', { value: Object.freeze({ workerURL, wasm }) });
+  Object.defineProperty(globalThis, 'peerlensOffline', { value: Object.freeze({ workerURL, wasm, sheets }) });
   const urls = [];
   for (const m of JSON.parse(data('peerlens-modules'))) {
     const src = m.source.replace(/@@peerlens-module-(\d+)@@/g, (_, k) => urls[Number(k)]);
