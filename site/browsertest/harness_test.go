@@ -102,8 +102,8 @@ func prepareSite(root, dst string) error {
 			}
 			return os.MkdirAll(filepath.Join(dst, rel), 0o755)
 		}
-		if rel == "peerlens.wasm" || rel == "wasm_exec.js" {
-			return nil
+		if strings.HasSuffix(rel, ".wasm") || rel == "wasm_exec.js" {
+			return nil // built fresh below
 		}
 		b, err := os.ReadFile(path)
 		if err != nil {
@@ -114,11 +114,18 @@ func prepareSite(root, dst string) error {
 	if err != nil {
 		return err
 	}
-	build := exec.Command("go", "build", "-o", filepath.Join(dst, "peerlens.wasm"), "./wasm")
-	build.Dir = root
-	build.Env = append(os.Environ(), "GOOS=js", "GOARCH=wasm")
-	if out, err := build.CombinedOutput(); err != nil {
-		return fmt.Errorf("building the WebAssembly engine: %v\n%s", err, out)
+	// The engine, and the spreadsheet module the page loads to read and
+	// write .xlsx files (as build.sh's build_wasm does).
+	for _, b := range []struct{ out, pkg string }{{"peerlens.wasm", "./wasm"}, {"peerlens-sheets.wasm", "./wasm/sheets"}} {
+		if _, err := os.Stat(filepath.Join(root, b.pkg)); err != nil {
+			continue
+		}
+		build := exec.Command("go", "build", "-o", filepath.Join(dst, b.out), b.pkg)
+		build.Dir = root
+		build.Env = append(os.Environ(), "GOOS=js", "GOARCH=wasm")
+		if out, err := build.CombinedOutput(); err != nil {
+			return fmt.Errorf("building %s: %v\n%s", b.pkg, err, out)
+		}
 	}
 	goroot, err := exec.Command("go", "env", "GOROOT").Output()
 	if err != nil {
@@ -206,10 +213,13 @@ func open(t *testing.T, width, height int) *tab {
 			t.Errorf("browser console error: %s", e)
 		}
 	})
+	start := time.Now()
 	if err := chromedp.Do(ctx, chromedp.Navigate(baseURL)); err != nil {
 		t.Fatalf("opening the page: %v", err)
 	}
-	tb.waitFor(`window.peerlens && window.peerlens.loads >= 1`, 30*time.Second, "the engine to start and load the demo study")
+	opened := time.Since(start)
+	tb.waitFor(`window.peerlens && window.peerlens.loads >= 1`, 60*time.Second, "the engine to start and load the demo study")
+	t.Logf("browser and page opened in %v, engine ready and demo loaded after %v", opened.Round(time.Millisecond), time.Since(start).Round(time.Millisecond))
 	return tb
 }
 
@@ -302,6 +312,30 @@ func (tb *tab) setRole(title, role string) {
 	if !ok {
 		tb.t.Fatalf("no column titled %q in the preview", title)
 	}
+}
+
+// chooseUnit scrolls the windowed results table until unit k's row is
+// drawn, then clicks its name.
+func (tb *tab) chooseUnit(k int) {
+	tb.t.Helper()
+	found := eval[bool](tb, fmt.Sprintf(`(async () => {
+		const box = document.getElementById('results-table');
+		const frame = () => new Promise(r => requestAnimationFrame(() => requestAnimationFrame(r)));
+		box.scrollTop = 0;
+		await frame();
+		for (let guard = 0; guard < 10000; guard++) {
+			const b = box.querySelector('button.unit-link[data-unit="%d"]');
+			if (b) { b.scrollIntoView({block: 'center'}); await frame(); return true; }
+			if (box.scrollTop + box.clientHeight >= box.scrollHeight - 1) return false;
+			box.scrollTop += Math.max(40, box.clientHeight - 60);
+			await frame();
+		}
+		return false;
+	})()`, k))
+	if !found {
+		tb.t.Fatalf("unit %d has no row in the results table", k)
+	}
+	tb.click(fmt.Sprintf(`#results-table button.unit-link[data-unit="%d"]`, k))
 }
 
 // shownScores reads every row of the windowed results table, scrolling

@@ -160,7 +160,7 @@ async function revalidate() {
 
 function showStudyIssues(v) {
   const list = clear($('study-issues'));
-  const errors = v.messages.filter((m) => m.severity === 'error');
+  const errors = v.messages.filter((m) => m.from === 'study' && m.severity === 'error');
   for (const m of errors.slice(0, 5)) list.append(el('li', { class: 'issue error' }, [el('span', { class: 'badge error' }, 'error'), ' ', m.message]));
   if (errors.length > 5) list.append(el('li', { class: 'issue error' }, 'and ' + (errors.length - 5) + ' more — see the messages beside the table.'));
   $('run').setAttribute('aria-describedby', errors.length ? 'study-issues' : 'run-status');

@@ -250,7 +250,10 @@ export class StudyView {
     this.colMarks = col;
   }
 
+  // hasErrors reports whether the engine's check of the study found an
+  // error (a cell that could not be read is an error only while its unit
+  // and measure take part, and the check says so itself).
   hasErrors() {
-    return this.messages.some((m) => m.severity === 'error');
+    return this.messages.some((m) => m.from === 'study' && m.severity === 'error');
   }
 }
