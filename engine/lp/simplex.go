@@ -607,7 +607,7 @@ func (sv *solver) price(bland bool) (int, float64) {
 	chunk := total
 	start := 0
 	if !bland {
-		chunk = max(64, total/8)
+		chunk = max(16, total/64) // small chunks: on DEA programs fewer columns priced outweigh a few more pivots
 		start = sv.priceStart
 	}
 	q, best := -1, -tolOpt
