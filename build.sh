@@ -19,10 +19,12 @@ need_packages() {
 	fi
 }
 
-# build_wasm compiles the engine bridge and copies wasm_exec.js into site/.
+# build_wasm compiles the engine bridge and the spreadsheet module (loaded
+# only when a workbook is opened or exported) and copies wasm_exec.js into site/.
 build_wasm() {
 	local out=${1:-site}
 	GOOS=js GOARCH=wasm go build -trimpath -ldflags="-s -w" -o "$out/peerlens.wasm" ./wasm
+	GOOS=js GOARCH=wasm go build -trimpath -ldflags="-s -w" -o "$out/peerlens-sheets.wasm" ./wasm/sheets
 	cp "$(go env GOROOT)/lib/wasm/wasm_exec.js" "$out/wasm_exec.js"
 }
 
