@@ -69,7 +69,6 @@ func TestDistOfflineFromFile(t *testing.T) {
 	if got := eval[int](tb, `document.querySelectorAll('#results-table tbody tr[data-unit]').length`); got == 0 {
 		t.Error("the results table is empty")
 	}
-	checkOwnFiles(t, reqs.list(), addr)
 	tb.checkPolicy()
 	csp := eval[string](tb, `document.querySelector('meta[http-equiv="Content-Security-Policy"]').content`)
 	for _, want := range []string{"connect-src 'none'", "default-src 'none'", "'wasm-unsafe-eval'", "'sha256-"} {
@@ -85,4 +84,5 @@ func TestDistOfflineFromFile(t *testing.T) {
 	link := tb.makeLink("")
 	other, _ := browseWith(t, link, "", `window.peerlens && window.peerlens.runs >= 1`, true)
 	sameStudy(t, "study from a link to the single file", other.pageStudy(), want)
+	checkOwnFiles(t, reqs.final(t), addr)
 }

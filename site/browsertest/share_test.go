@@ -121,7 +121,7 @@ func TestShareLinkRoundTrip(t *testing.T) {
 	t.Run("plain", func(t *testing.T) {
 		other, reqs := browse(t, plain, "", `window.peerlens && window.peerlens.runs >= 1`)
 		sameStudy(t, "study from the link", other.pageStudy(), want)
-		checkOwnFiles(t, reqs.list(), baseURL)
+		checkOwnFiles(t, reqs.final(t), baseURL)
 	})
 
 	t.Run("locked", func(t *testing.T) {
