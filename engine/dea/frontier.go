@@ -34,10 +34,12 @@ const keepAbove = 1 - 1e-6
 // several optimal combinations (the peers, when they are not unique) can
 // differ, always in favour of units in C.
 //
-// After the block rounds every candidate is evaluated once against the
-// whole candidate set, and those scoring below 1 are dropped together. That
-// too keeps the technology: its extreme points are units of C that no convex
-// combination of C dominates, so they all score 1 and stay.
+// Units dropped together from one block are also safe: the block's
+// technology is spanned by its extreme points, which no convex combination
+// of the block dominates, so they all score 1 and stay. Rounds repeat with
+// freshly shuffled blocks; when a round thins the set out by less than a
+// tenth the blocks grow fourfold, and the last round evaluates every
+// remaining candidate against all of them.
 //
 // Screening needs only to know whether a score is below 1, so each program
 // stops as soon as a combination proves it is (lp.Options.Cutoff).
@@ -61,9 +63,12 @@ func frontier(ctx context.Context, sc *scaled) ([]int, error) {
 	m := Model{Returns: Variable, Orientation: Input}
 	rng := rand.New(rand.NewPCG(uint64(sc.n), 0x9e3779b97f4a7c15))
 	cand := all
-	for round := 0; round < 8; round++ {
+	for size := blockSize; ; {
 		rng.Shuffle(len(cand), func(a, b int) { cand[a], cand[b] = cand[b], cand[a] })
-		nb := (len(cand) + blockSize - 1) / blockSize
+		nb := (len(cand) + size - 1) / size
+		if len(cand) <= 2*size {
+			nb = 1 // the last round: every candidate against all of them
+		}
 		var next []int
 		for b := 0; b < nb; b++ {
 			if err := ctx.Err(); err != nil {
@@ -82,22 +87,13 @@ func frontier(ctx context.Context, sc *scaled) ([]int, error) {
 		}
 		shrunk := len(cand) - len(next)
 		cand = next
-		if len(cand) <= blockSize || shrunk*10 < len(cand) {
+		if nb == 1 {
 			break
+		}
+		if shrunk*10 < len(cand) {
+			size *= 4 // blocks of this size no longer thin the set out
 		}
 	}
 	slices.Sort(cand)
-	env := newEnvelope(sc, cand, m)
-	env.cutoff = keepAbove
-	var kept []int
-	for _, j := range cand {
-		if err := ctx.Err(); err != nil {
-			return nil, err
-		}
-		p, err := env.solve(sc.x[j], sc.y[j], j, false, false)
-		if err != nil || p.score > keepAbove {
-			kept = append(kept, j)
-		}
-	}
-	return kept, nil
+	return cand, nil
 }
