@@ -98,7 +98,7 @@ func printTable(w io.Writer, files []string) error {
 		return fmt.Sprintf("%d/%d", m.Verified, m.Units)
 	})
 	row("engine native, s", func(n int) string { m, ok := get(nat, n); return num(m.EngineSec, ok, "%.3f") })
-	row("  of which candidate set, s", func(n int) string { m, ok := get(nat, n); return num(m.FrontierSec, ok, "%.3f") })
+	row("candidate set alone (own call), s", func(n int) string { m, ok := get(nat, n); return num(m.FrontierSec, ok, "%.3f") })
 	row("engine wasm (Node), s", func(n int) string { m, ok := get(wasm, n); return num(m.EngineSec, ok, "%.3f") })
 	row("floor native, s", func(n int) string { m, ok := get(nat, n); return num(m.FloorSec, ok, "%.4f") })
 	row("floor wasm, s", func(n int) string { m, ok := get(wasm, n); return num(m.FloorSec, ok, "%.4f") })
