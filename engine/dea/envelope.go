@@ -132,6 +132,10 @@ type envelope struct {
 	// cutoff, when positive, stops the radial stage as soon as the score
 	// (input orientation) is proven below it: screening needs no more.
 	cutoff float64
+	// lam holds the lambdas of the last solved point (one per reference
+	// unit): reused, because a large reference set would otherwise make
+	// every unit allocate a long slice that is read once.
+	lam []float64
 }
 
 func newEnvelope(sc *scaled, ref []int, m Model) *envelope {
@@ -189,13 +193,14 @@ func (e *envelope) clone() *envelope {
 	c.prob.B = make([]float64, e.rows)
 	c.prob.C = make([]float64, e.cols)
 	c.ws, c.ws2, c.prob2, c.dirty = new(lp.Workspace), new(lp.Workspace), lp.Problem{}, -1
+	c.lam = nil
 	return &c
 }
 
 // point is the solution of one point's envelopment program, in scaled data.
 type point struct {
 	score  float64   // theta or phi
-	lambda []float64 // per reference unit
+	lambda []float64 // per reference unit; the envelope's buffer, valid until its next solve
 	self   float64   // lambda of the extra (self) column
 	sIn    []float64 // input slacks
 	sOut   []float64 // output slacks
@@ -293,7 +298,8 @@ func (e *envelope) solve(x, y []float64, self int, exclude, second bool) (*point
 		}
 	}
 	K := len(e.ref)
-	p.lambda = append([]float64(nil), sol.X[1:1+K]...)
+	e.lam = append(e.lam[:0], sol.X[1:1+K]...)
+	p.lambda = e.lam
 	p.self = sol.X[e.extra]
 	p.sIn = append([]float64(nil), sol.X[e.slack0:e.slack0+sc.m]...)
 	p.sOut = append([]float64(nil), sol.X[e.slack0+sc.m:e.slack0+sc.m+sc.s]...)
