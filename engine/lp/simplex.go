@@ -618,15 +618,23 @@ func (sv *solver) price(bland bool) (int, float64) {
 		if plain && !bland {
 			// The hot loop: structural columns as stored, basic columns
 			// (reduced cost zero in theory) skipped only when they would win.
-			cost, pos := sv.cost, sv.pos
-			for j := start; j < min(end, n); j++ {
-				col := a[j*m : j*m+m : j*m+m]
+			// Slices cut to their lengths let the compiler drop the
+			// bounds checks from the inner loop.
+			hi := max(start, min(end, n))
+			cs := sv.cost[start:hi]
+			ps := sv.pos[start:hi]
+			ps = ps[:len(cs)]
+			cols := a[start*m : hi*m]
+			yy := y[:m]
+			for k := range cs {
+				col := cols[:len(yy)]
+				cols = cols[len(yy):]
 				t := 0.0
 				for i, v := range col {
-					t += v * y[i]
+					t += v * yy[i]
 				}
-				if d := cost[j] - t; d < best && pos[j] < 0 {
-					q, best = j, d
+				if d := cs[k] - t; d < best && ps[k] < 0 {
+					q, best = start+k, d
 				}
 			}
 		}
