@@ -615,12 +615,12 @@ func (sv *solver) price(bland bool) (int, float64) {
 	plain := sv.plain
 	for scanned := 0; scanned < total; {
 		end := min(start+chunk, total)
-		if plain && !bland {
+		if plain && !bland && start < n {
 			// The hot loop: structural columns as stored, basic columns
 			// (reduced cost zero in theory) skipped only when they would win.
 			// Slices cut to their lengths let the compiler drop the
 			// bounds checks from the inner loop.
-			hi := max(start, min(end, n))
+			hi := min(end, n)
 			cs := sv.cost[start:hi]
 			ps := sv.pos[start:hi]
 			ps = ps[:len(cs)]
@@ -639,7 +639,7 @@ func (sv *solver) price(bland bool) (int, float64) {
 			}
 		}
 		lo := start
-		if plain && !bland {
+		if plain && !bland && start < n {
 			lo = max(start, n) // structural columns were priced above
 		}
 		for j := lo; j < end; j++ {
