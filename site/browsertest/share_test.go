@@ -197,6 +197,19 @@ func TestLongLinkWarns(t *testing.T) {
 
 func TestKeepInBrowserAndLeaving(t *testing.T) {
 	tb, _ := browse(t, baseURL, "", demoReady)
+	// Leaving the untouched demo does not ask (the click gives the page the
+	// user activation browsers require before they ask at all).
+	tb.click("#data-h")
+	if err := chromedp.Do(tb.ctx, chromedp.Navigate(baseURL+"?first")); err != nil {
+		t.Fatal(err)
+	}
+	tb.waitFor(demoReady, 30*time.Second, "the page again")
+	tb.mu.Lock()
+	if len(tb.dialogs) != 0 {
+		t.Errorf("leaving the untouched demo asked first: %v", tb.dialogs)
+	}
+	tb.dialogs = nil
+	tb.mu.Unlock()
 	want := tb.editDemo()
 	// Leaving with unsaved changes asks first.
 	if err := chromedp.Do(tb.ctx, chromedp.Navigate(baseURL+"?again")); err != nil {
