@@ -46,9 +46,13 @@ export class EngineError extends Error {
 // unless the single-file build supplies the worker and the engine's bytes.
 function setup() {
   const offline = globalThis.peerlensOffline;
+  if (offline && offline.workerURL) {
+    // The single-file build: this module is a blob: URL, which has no
+    // folder; the spreadsheet module is not part of that file.
+    return { workerURL: offline.workerURL, wasm: offline.wasm, base: '' };
+  }
   const base = new URL('./', import.meta.url).href;
-  if (offline && offline.workerURL) return { workerURL: offline.workerURL, wasm: offline.wasm, base };
-  return { workerURL: new URL('./worker.js', import.meta.url).href, wasm: null, base };
+  return { workerURL: new URL('./worker.js', base).href, wasm: null, base };
 }
 
 // Client is one worker and its pending requests.
