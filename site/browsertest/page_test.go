@@ -72,6 +72,7 @@ func nativeRun(t *testing.T, s *study.Study) *dea.Result {
 // with the engine's native result for the same study. Source: the engine
 // itself (engine/study and engine/dea), run natively in this test.
 func TestPastedDemoScoresMatchNativeEngine(t *testing.T) {
+	t.Parallel()
 	tb := open(t, 1280, 900)
 	demo := study.Demo()
 	tb.paste(demoTSV(demo))
@@ -135,6 +136,7 @@ func TestPastedDemoScoresMatchNativeEngine(t *testing.T) {
 // mark per unit, the frontier line, and the chosen unit's path to its
 // target.
 func TestFrontierChartMarksAndTargetPath(t *testing.T) {
+	t.Parallel()
 	tb := open(t, 1280, 900)
 	tb.runStudy()
 	units := eval[int](tb, `window.peerlens.result.units.length`)
@@ -221,6 +223,7 @@ func (tb *tab) download(sel, dir string) []byte {
 // TestExportsHoldWhatTheTableShows downloads the CSV and .xlsx files and
 // compares each unit's score and status with the results table.
 func TestExportsHoldWhatTheTableShows(t *testing.T) {
+	t.Parallel()
 	tb := open(t, 1280, 900)
 	tb.runStudy()
 	shown := tb.shownScores()
@@ -301,6 +304,7 @@ func ptr[T any](v T) *T { return &v }
 // TestUnitNameIsShownAsText pastes a unit whose name is HTML and checks
 // that it shows as that text everywhere and runs nothing.
 func TestUnitNameIsShownAsText(t *testing.T) {
+	t.Parallel()
 	tb := open(t, 1280, 900)
 	const evil = `<img src=x onerror=alert(1)>`
 	tb.paste("Name\tStaff\tBudget\tVisits\n" + evil + "\t3\t40\t10\nBrook\t4\t35\t12\nCedar\t5\t60\t11\nDale\t6\t50\t16\n")
@@ -347,6 +351,7 @@ func TestUnitNameIsShownAsText(t *testing.T) {
 // gets its message at that cell, that leaving its unit out lets the study
 // run without it, and that bringing it back works.
 func TestBadCellLeaveOutAndBringBack(t *testing.T) {
+	t.Parallel()
 	tb := open(t, 1280, 900)
 	tb.paste("Branch\tStaff\tLoans\nAsh\t3\t10\nBirch\tabc\t12\nCedar\t5\t11\nDale\t6\t16\nElm\t4\t9\n")
 	// Birch is the second data row (row 3 of the text), Staff the second column.
@@ -427,6 +432,7 @@ func bigTSV(n int) string {
 // checks that the page answers, shows no partial results and keeps the
 // study as it was.
 func TestCancelLongRunKeepsPageUsable(t *testing.T) {
+	t.Parallel()
 	tb := open(t, 1280, 900)
 	tb.paste(bigTSV(6000))
 	if n := eval[int](tb, `document.querySelectorAll('#preview tbody tr[data-unit]').length`); n == 0 || n > 200 {
@@ -470,6 +476,7 @@ func TestCancelLongRunKeepsPageUsable(t *testing.T) {
 // pixels wide (kept in PEERLENS_SHOTS when set) and checks that nothing
 // makes the page scroll sideways.
 func TestLayoutAtLaptopAndTabletWidths(t *testing.T) {
+	t.Parallel()
 	for _, w := range []int{1280, 800} {
 		t.Run(strconv.Itoa(w), func(t *testing.T) {
 			tb := open(t, w, 900)
@@ -494,6 +501,7 @@ func TestLayoutAtLaptopAndTabletWidths(t *testing.T) {
 // frontier; from memory), and the constant-returns frontier is the ray from
 // the origin through the unit with the highest output/input ratio.
 func TestFrontierOutlineGeometry(t *testing.T) {
+	t.Parallel()
 	tb := open(t, 1280, 900)
 	got := eval[map[string][][]float64](tb, `(async () => {
 		const g = await import('./js/geometry.js');
