@@ -543,3 +543,50 @@ func TestFrontierOutlineGeometry(t *testing.T) {
 		}
 	}
 }
+
+// TestOpenFilesAndNumberReading opens a CSV file and an .xlsx workbook
+// through the "open a file" control, and pastes a table with decimal
+// commas, checking that each is read and that the preview says how each
+// column's numbers were read.
+func TestOpenFilesAndNumberReading(t *testing.T) {
+	t.Parallel()
+	tb := open(t, 1280, 900)
+	dir := t.TempDir()
+	csvPath := filepath.Join(dir, "depots.csv")
+	if err := os.WriteFile(csvPath, []byte("Depot,Drivers,Fuel,Parcels\nNorth,12,340,5200\nSouth,9,310,4100\nEast,15,420,6100\nWest,7,250,3900\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	xf := excelize.NewFile()
+	rows := [][]any{{"Depot", "Drivers", "Fuel", "Parcels"}, {"Harbour", 11, 300.5, 5000}, {"Ridge", 8, 280.25, 4200}, {"Vale", 13, 390, 5600}}
+	for i, r := range rows {
+		cell, _ := excelize.CoordinatesToCellName(1, i+1)
+		if err := xf.SetSheetRow("Sheet1", cell, &r); err != nil {
+			t.Fatal(err)
+		}
+	}
+	xlsxPath := filepath.Join(dir, "depots.xlsx")
+	if err := xf.SaveAs(xlsxPath); err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range []struct {
+		path  string
+		units []string
+	}{{csvPath, []string{"North", "South", "East", "West"}}, {xlsxPath, []string{"Harbour", "Ridge", "Vale"}}} {
+		before := eval[int](tb, `window.peerlens.loads`)
+		if err := chromedp.Do(tb.ctx, chromedp.SetUploadFiles(chromedp.ID("file-input"), []string{c.path})); err != nil {
+			t.Fatalf("choosing %s: %v", c.path, err)
+		}
+		tb.waitFor(fmt.Sprintf(`window.peerlens.loads > %d`, before), 30*time.Second, "the file "+filepath.Base(c.path)+" to be read")
+		if got := eval[[]string](tb, `window.peerlens.study.units`); strings.Join(got, ",") != strings.Join(c.units, ",") {
+			t.Errorf("%s: units %q, want %q", filepath.Base(c.path), got, c.units)
+		}
+	}
+	tb.paste("Depot;Drivers;Fuel;Parcels\nNorth;12,5;340,25;5200\nSouth;9,75;310,5;4100\nEast;15,25;420,75;6100\n")
+	if got := eval[[]float64](tb, `window.peerlens.study.values[0]`); len(got) != 3 || got[0] != 12.5 || got[1] != 340.25 {
+		t.Errorf("decimal commas read as %v, want 12.5, 340.25, 5200", got)
+	}
+	note := eval[string](tb, `[...document.querySelectorAll('#preview thead th[data-col]')].find(th => th.querySelector('.col-title').textContent === 'Fuel').querySelector('.col-note').textContent`)
+	if !strings.Contains(note, "decimal comma") {
+		t.Errorf("the Fuel column's note is %q; it should say the numbers were read with a decimal comma", note)
+	}
+}
