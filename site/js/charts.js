@@ -175,7 +175,7 @@ export function frontierChart(result, opts) {
   }
   root.append(plot);
   root.append(legend([
-    ['line', COLORS.frontier, 'frontier of these two measures'],
+    ['line', COLORS.frontier, 'frontier of the measures shown'],
     ['dot', COLORS.efficient, 'efficient unit'],
     ['ring', COLORS.other, 'other unit'],
     ['dot', COLORS.selected, 'chosen unit and its target'],
