@@ -176,6 +176,11 @@ async function runStudy() {
     return;
   }
   const snapshot = copyStudy(v.study);
+  if (state.result) {
+    // The earlier results stay readable but are marked as out of date.
+    state.stale = true;
+    $('results').classList.add('stale');
+  }
   const bar = $('progress');
   bar.value = 0;
   bar.max = 1;
