@@ -83,9 +83,9 @@ class Client {
       };
     });
     this.ready.catch(() => {}); // reported to whoever awaits it
-    Promise.resolve(cfg.wasm)
-      .then((wasm) => this.worker.postMessage({ op: 'init', base: cfg.base, wasm: wasm || undefined }))
-      .catch((err) => this.terminate(new EngineError('The engine could not be unpacked: ' + (err && err.message))));
+    Promise.resolve(cfg.module)
+      .then((module) => this.worker.postMessage({ op: 'init', base: cfg.base, module }))
+      .catch((err) => this.terminate(new EngineError('The engine could not be loaded: ' + (err && err.message))));
   }
 
   receive(m) {
@@ -135,7 +135,15 @@ export class Engine {
 
   // start loads the engine and resolves when it is ready.
   static async start(options = {}) {
-    const eng = new Engine({ ...setup(), ...options });
+    const cfg = { ...setup(), ...options };
+    // Fetch and compile the engine once; every worker instantiates the
+    // same compiled module (modules can be posted to workers).
+    cfg.module = cfg.wasm
+      ? Promise.resolve(cfg.wasm).then((bytes) => WebAssembly.compile(bytes))
+      : WebAssembly.compileStreaming(fetch(cfg.base + 'peerlens.wasm')).catch(() =>
+          fetch(cfg.base + 'peerlens.wasm').then((r) => r.arrayBuffer()).then((b) => WebAssembly.compile(b)));
+    cfg.module.catch(() => {}); // reported through the worker's start
+    const eng = new Engine(cfg);
     await eng.main.ready;
     eng.version = eng.main.version;
     eng.spare = new Client(eng.cfg); // warm up a runner in the background

@@ -8,11 +8,11 @@
 // Message protocol (plain objects, structured clone):
 //
 // page -> worker, first and once:
-//   {op: 'init', base, wasm?}
-//     base: absolute URL of the folder holding wasm_exec.js, peerlens.wasm
-//           and peerlens-sheets.wasm;
-//     wasm: the engine's bytes (ArrayBuffer) when the page has them already
-//           (the single-file offline build); otherwise they are fetched.
+//   {op: 'init', base, module?}
+//     base:   absolute URL of the folder holding wasm_exec.js, peerlens.wasm
+//             and peerlens-sheets.wasm;
+//     module: the engine compiled by the page (a WebAssembly.Module, shared
+//             by all workers); without it the worker fetches peerlens.wasm.
 // worker -> page, once:
 //   {type: 'ready', version}            the engine is loaded
 //   {type: 'failed', message}           it could not be loaded; the worker is useless
@@ -51,7 +51,9 @@ async function instantiate(source, globalName) {
   if (typeof Go === 'undefined') importScripts(base + 'wasm_exec.js');
   const go = new Go();
   let result;
-  if (source instanceof ArrayBuffer || ArrayBuffer.isView(source)) {
+  if (source instanceof WebAssembly.Module) {
+    result = { instance: await WebAssembly.instantiate(source, go.importObject) };
+  } else if (source instanceof ArrayBuffer || ArrayBuffer.isView(source)) {
     result = await WebAssembly.instantiate(source, go.importObject);
   } else {
     const response = await fetch(source);
@@ -126,7 +128,7 @@ const ops = {
 async function boot(msg) {
   base = msg.base || '';
   try {
-    engine = await instantiate(msg.wasm || base + 'peerlens.wasm', 'peerlensEngine');
+    engine = await instantiate(msg.module || msg.wasm || base + 'peerlens.wasm', 'peerlensEngine');
     postMessage({ type: 'ready', version: engine.version() });
   } catch (err) {
     postMessage({ type: 'failed', message: message(err) });
