@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"math"
 	"runtime"
+	"slices"
 	"sync"
 )
 
@@ -455,14 +456,14 @@ func (ev *evaluator) fill(u *UnitResult, e *envelope, p *point, o int) {
 	u.InputW = make([]Weight, sc.m)
 	vx := 0.0
 	for i := range u.InputW {
-		w := -p.y[i] / sc.mx[i]
+		w := cleanWeight(-p.y[i]) / sc.mx[i]
 		u.InputW[i] = Weight{Measure: u.Inputs[i].Measure, Weight: w}
 		vx += w * d.X[o][i]
 	}
 	u.OutputW = make([]Weight, sc.s)
 	uy := 0.0
 	for r := range u.OutputW {
-		w := p.y[sc.m+r] / sc.my[r]
+		w := cleanWeight(p.y[sc.m+r]) / sc.my[r]
 		u.OutputW[r] = Weight{Measure: u.Outputs[r].Measure, Weight: w}
 		uy += w * d.Y[o][r]
 	}
@@ -479,6 +480,7 @@ func (ev *evaluator) fill(u *UnitResult, e *envelope, p *point, o int) {
 	for q := range e.rr {
 		u.Free += p.y[ms+q]
 	}
+	u.Free += 0 // -0 becomes 0
 	switch {
 	case u.Score < 1-scoreTol:
 		u.Status = Inefficient
@@ -487,6 +489,16 @@ func (ev *evaluator) fill(u *UnitResult, e *envelope, p *point, o int) {
 	default:
 		u.Status = Efficient
 	}
+}
+
+// cleanWeight turns rounding noise around zero in a scaled multiplier
+// weight (such as -2e-20, or -0) into zero; a clearly negative weight is
+// kept so that the certificate reports it.
+func cleanWeight(w float64) float64 {
+	if w > -1e-12 && w < 1e-15 {
+		return 0
+	}
+	return w
 }
 
 func nameAt(names []string, i int, kind string) string {
@@ -529,4 +541,31 @@ func (ev *evaluator) scale(u *UnitResult, o int) {
 	default:
 		u.ScaleClass = ScaleIncreasing
 	}
+}
+
+// Merge joins the results of runs over disjoint sets of units of the same
+// data and model (RunWith with Options.Units, for example one run per
+// worker) into one result in unit order, and counts peers over all of them.
+func Merge(parts ...*Result) (*Result, error) {
+	if len(parts) == 0 {
+		return nil, errors.New("dea: nothing to merge")
+	}
+	out := &Result{Model: parts[0].Model, Frontier: parts[0].Frontier}
+	seen := map[int]bool{}
+	for _, p := range parts {
+		if p.Model != out.Model {
+			return nil, errors.New("dea: the results to merge come from different models")
+		}
+		for _, u := range p.Units {
+			if seen[u.Index] {
+				return nil, fmt.Errorf("dea: unit %d appears in two of the results to merge", u.Index)
+			}
+			seen[u.Index] = true
+			u.PeerCount = 0
+			out.Units = append(out.Units, u)
+		}
+	}
+	slices.SortFunc(out.Units, func(a, b UnitResult) int { return a.Index - b.Index })
+	countPeers(out)
+	return out, nil
 }

@@ -104,3 +104,39 @@ func benchRun(b *testing.B, n int) {
 
 func BenchmarkVRSInput1000(b *testing.B)  { benchRun(b, 1000) }
 func BenchmarkVRSInput10000(b *testing.B) { benchRun(b, 10000) }
+
+// Runs over parts of the units, merged, give the same result as one run.
+func TestMergeEqualsOneRun(t *testing.T) {
+	d := cobbDouglas(300, 2, 2, 3)
+	m := DefaultModel()
+	ctx := context.Background()
+	whole, err := Run(ctx, d, m, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var parts []*Result
+	for w := 0; w < 3; w++ {
+		var units []int
+		for j := w; j < 300; j += 3 {
+			units = append(units, j)
+		}
+		r, err := RunWith(ctx, d, m, Options{Units: units, Frontier: whole.Frontier})
+		if err != nil {
+			t.Fatal(err)
+		}
+		parts = append(parts, r)
+	}
+	merged, err := Merge(parts[2], parts[0], parts[1])
+	if err != nil {
+		t.Fatal(err)
+	}
+	for k, u := range merged.Units {
+		w := whole.Units[k]
+		if u.Index != w.Index || u.Score != w.Score || u.PeerCount != w.PeerCount {
+			t.Errorf("unit %d: merged %d %v %d, whole %d %v %d", k, u.Index, u.Score, u.PeerCount, w.Index, w.Score, w.PeerCount)
+		}
+	}
+	if _, err := Merge(parts[0], parts[0]); err == nil {
+		t.Error("merging a part twice should fail")
+	}
+}
