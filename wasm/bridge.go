@@ -25,6 +25,7 @@ func register() error {
 		"demo":         func([]safejs.Value) (any, error) { return js.FromJSON(api.Demo()) },
 		"validate":     validate,
 		"run":          run,
+		"frontier":     frontier,
 		"explain":      explain,
 		"describe":     describe,
 		"exportCSV":    exportCSV,
@@ -84,18 +85,25 @@ type progressReply struct {
 	Total int `js:"total"`
 }
 
-// run(study, onProgress, units): onProgress(done, total, {done, total}) is
-// called now and then; units (optional) restricts the run to those units.
+// run(study, onProgress, units, frontier): onProgress(done, total, {done,
+// total}) is called now and then; units (optional) restricts the run to
+// those units; frontier (optional) is the candidate set frontier(study)
+// returned, so that workers sharing one run do not each compute it.
 func run(args []safejs.Value) (any, error) {
 	s, err := js.JSONArg(args, 0)
 	if err != nil {
 		return nil, err
 	}
-	var units []int
-	if js.Given(args, 2) {
-		if err := js.FromJS(js.Arg(args, 2), &units); err != nil {
-			return nil, fmt.Errorf("the list of units could not be read: %w", err)
-		}
+	units, err := intsArg(args, 2, "the list of units")
+	if err != nil {
+		return nil, err
+	}
+	frontier, err := intsArg(args, 3, "the frontier")
+	if err != nil {
+		return nil, err
+	}
+	if frontier == nil && js.Given(args, 3) {
+		frontier = []int{} // an empty list given is an error, not "work it out"
 	}
 	var progress func(done, total int)
 	if cb := js.Arg(args, 1); cb.Type() == safejs.TypeFunction {
@@ -108,7 +116,29 @@ func run(args []safejs.Value) (any, error) {
 			_, _ = cb.Invoke(done, total, js.ToJS(progressReply{Done: done, Total: total})) // a failing callback does not stop the run
 		}
 	}
-	return js.FromJSON(api.Run(context.Background(), s, units, progress))
+	return js.FromJSON(api.RunPart(context.Background(), s, units, frontier, progress))
+}
+
+// intsArg reads an optional array of integers (nil when not given).
+func intsArg(args []safejs.Value, i int, what string) ([]int, error) {
+	if !js.Given(args, i) {
+		return nil, nil
+	}
+	var v []int
+	if err := js.FromJS(js.Arg(args, i), &v); err != nil {
+		return nil, fmt.Errorf("%s could not be read: %w", what, err)
+	}
+	return v, nil
+}
+
+// frontier(study) returns {frontier, units}: the candidate set of the
+// study's included units (indices into them) and how many are included.
+func frontier(args []safejs.Value) (any, error) {
+	s, err := js.JSONArg(args, 0)
+	if err != nil {
+		return nil, err
+	}
+	return js.FromJSON(api.Frontier(context.Background(), s))
 }
 
 func explain(args []safejs.Value) (any, error) {

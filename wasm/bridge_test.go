@@ -284,3 +284,37 @@ func TestErrorsComeBackAsMessages(t *testing.T) {
 		t.Errorf("panic gave %q", e)
 	}
 }
+
+// frontier(study), then run(study, null, units, frontier) on a share of the
+// units, gives those units the scores of the whole run; a frontier that
+// cannot belong to the study is refused with a message.
+func TestFrontierThenSharedRun(t *testing.T) {
+	demo := call(t, "demo")
+	fs := call(t, "frontier", demo)
+	if e := js.ErrorOf(fs); e != "" {
+		t.Fatal(e)
+	}
+	front, _ := fs.Get("frontier")
+	n, _ := fs.Get("units")
+	_, nr := nativeDemo(t)
+	if got, _ := n.Int(); got != len(nr.Units) {
+		t.Fatalf("frontier says %d units, the demo has %d", got, len(nr.Units))
+	}
+	units, _ := safejs.ValueOf([]any{3, 1})
+	res := call(t, "run", demo, safejs.Null(), units, front)
+	if e := js.ErrorOf(res); e != "" {
+		t.Fatal(e)
+	}
+	us, _ := res.Get("units")
+	for k, j := range []int{3, 1} {
+		u, _ := us.Index(k)
+		sv, _ := u.Get("score")
+		if s, _ := sv.Float(); s != nr.Units[j].Score {
+			t.Errorf("unit %d: shared run score %v, whole run %v", j, s, nr.Units[j].Score)
+		}
+	}
+	bad, _ := safejs.ValueOf([]any{0, 999})
+	if e := js.ErrorOf(call(t, "run", demo, safejs.Null(), units, bad)); !strings.Contains(e, "frontier") {
+		t.Errorf("a foreign frontier gave %q, want a message about the frontier", e)
+	}
+}
