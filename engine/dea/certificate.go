@@ -57,12 +57,22 @@ func (e *envelope) certify(p *point, x0, y0 []float64, self int, checkSet []int)
 		viol(&cert.PrimalError, -p.lambda[k]/math.Max(1, absL))
 	}
 	viol(&cert.PrimalError, -p.self/math.Max(1, absL))
+	// Each side's rows are also measured against the largest right-hand
+	// side of that side (a normwise relative backward error), so rounding
+	// noise in a row whose terms are all zero is not mistaken for a failure.
+	inScale, outScale := 0.0, 0.0
+	for i := 0; i < sc.m; i++ {
+		inScale = math.Max(inScale, math.Abs(x0[i]*pick(input, p.score, 1)))
+	}
+	for r := 0; r < sc.s; r++ {
+		outScale = math.Max(outScale, math.Abs(y0[r]*pick(!input, p.score, 1)))
+	}
 	for i := 0; i < sc.m; i++ {
 		rhs := x0[i]
 		if input {
 			rhs = p.score * x0[i]
 		}
-		den := absX[i] + math.Abs(p.sIn[i]) + math.Abs(rhs)
+		den := absX[i] + math.Abs(p.sIn[i]) + math.Abs(rhs) + inScale
 		viol(&cert.PrimalError, relative(sumX[i]+p.sIn[i]-rhs, den, true))
 		viol(&cert.PrimalError, relative(-p.sIn[i], den, false))
 	}
@@ -71,7 +81,7 @@ func (e *envelope) certify(p *point, x0, y0 []float64, self int, checkSet []int)
 		if !input {
 			rhs = p.score * y0[r]
 		}
-		den := absY[r] + math.Abs(p.sOut[r]) + math.Abs(rhs)
+		den := absY[r] + math.Abs(p.sOut[r]) + math.Abs(rhs) + outScale
 		viol(&cert.PrimalError, relative(sumY[r]-p.sOut[r]-rhs, den, true))
 		viol(&cert.PrimalError, relative(-p.sOut[r], den, false))
 	}
@@ -125,7 +135,10 @@ func (e *envelope) certify(p *point, x0, y0 []float64, self int, checkSet []int)
 		// Most units sit strictly inside the weights' frontier: only a
 		// positive (or NaN) residual can be a violation.
 		if d := uy - vx + w; !(d <= 0) {
-			viol(&cert.DualError, relative(d, math.Abs(uy)+math.Abs(vx)+math.Abs(w), false))
+			// Measured against the unit's own virtual input and output and
+			// the free term, with a floor of 1e-6 of the normalisation
+			// (v.x0 = 1 or u.y0 = 1).
+			viol(&cert.DualError, relative(d, math.Abs(uy)+math.Abs(vx)+math.Abs(w)+1e-6, false))
 		}
 	}
 	cert.Gap = relative(p.score-dualObj, math.Abs(p.score)+math.Abs(dualObj), true)
@@ -186,6 +199,13 @@ func (e *envelope) certifyInfeasible(y, x0, y0 []float64, checkSet []int) Certif
 // relative is v measured against the size den of the terms it came from
 // (absolute: |v|; otherwise v itself, so that negative values are no
 // violation); 0 when there is nothing to measure.
+func pick(cond bool, a, b float64) float64 {
+	if cond {
+		return a
+	}
+	return b
+}
+
 func relative(v, den float64, absolute bool) float64 {
 	if absolute {
 		v = math.Abs(v)
@@ -202,4 +222,22 @@ func dot(a, b []float64) float64 {
 		t += a[i] * b[i]
 	}
 	return t
+}
+
+// certifyNoExpansion checks the claim phi = 0 in output orientation (no
+// combination of the reference units within the unit's inputs produces any
+// of its outputs): the dual solution must be feasible and its objective,
+// an upper bound on phi, zero within the tolerance. It makes no primal
+// claim, so PrimalError is left at zero.
+func (e *envelope) certifyNoExpansion(p *point, x0, y0 []float64, checkSet []int) Certificate {
+	c := e.certify(p, x0, y0, -1, checkSet)
+	sc := e.sc
+	bound := -dot(p.y[:sc.m], x0) // v.x0
+	for q, r := range e.rr {
+		bound -= p.y[sc.m+sc.s+q] * r.rhs
+	}
+	c.PrimalError = 0
+	c.Gap = math.Max(bound, 0)
+	c.Verified = c.DualError <= certTolerance && c.Gap <= certTolerance
+	return c
 }

@@ -132,6 +132,11 @@ type envelope struct {
 	// cutoff, when positive, stops the radial stage as soon as the score
 	// (input orientation) is proven below it: screening needs no more.
 	cutoff float64
+	// k is the scale of the score column in the last solve (see solve).
+	k float64
+	// careful makes solve scale rows and columns and start from phase 1: the
+	// second attempt for a result whose certificate failed.
+	careful bool
 	// lam holds the lambdas of the last solved point (one per reference
 	// unit): reused, because a large reference set would otherwise make
 	// every unit allocate a long slice that is read once.
@@ -231,18 +236,27 @@ func (e *envelope) solve(x, y []float64, self int, exclude, second bool) (*point
 	for i := range c {
 		c[i] = 0
 	}
+	// The score variable is carried as k*score, with k the power of two
+	// nearest the largest entry of its column, so that the column's largest
+	// entry is near 1 even for a unit far smaller or larger than the
+	// measure's mean (otherwise its entries could fall below the solver's
+	// pivot tolerance). The objective is unchanged: c[0]*(k*score) = score.
 	if input {
+		k := columnScale(x)
 		for i := 0; i < sc.m; i++ {
-			col0[i] = -x[i]
+			col0[i] = -x[i] / k
 		}
 		copy(b[sc.m:], y)
-		c[0] = 1
+		c[0] = 1 / k
+		e.k = k
 	} else {
+		k := columnScale(y)
 		for r := 0; r < sc.s; r++ {
-			col0[sc.m+r] = -y[r]
+			col0[sc.m+r] = -y[r] / k
 		}
 		copy(b, x)
-		c[0] = -1
+		c[0] = -1 / k
+		e.k = k
 	}
 	for q, r := range e.rr {
 		b[sc.m+sc.s+q] = r.rhs
@@ -274,11 +288,11 @@ func (e *envelope) solve(x, y []float64, self int, exclude, second bool) (*point
 		e.fillLambda(extra, sc.x[self], sc.y[self])
 		selfCol = e.extra
 	}
-	opt := lp.Options{NoScale: true, Checked: true, NoReducedCosts: true}
+	opt := lp.Options{NoScale: !e.careful, Checked: true, NoReducedCosts: true}
 	if e.cutoff > 0 && input {
 		opt.HasCutoff, opt.Cutoff = true, e.cutoff
 	}
-	if selfCol >= 0 {
+	if selfCol >= 0 && !e.careful {
 		opt.Basis = e.selfBasis(x, y, selfCol)
 	}
 	sol, err := e.ws.Solve(&e.prob, &opt)
@@ -288,7 +302,7 @@ func (e *envelope) solve(x, y []float64, self int, exclude, second bool) (*point
 		}
 		return nil, err
 	}
-	p := &point{score: sol.X[0], y: append([]float64(nil), sol.Y...), iter: sol.Iter, phase1: sol.Phase1, basis: append([]int(nil), sol.Basis...)}
+	p := &point{score: sol.X[0] / e.k, y: append([]float64(nil), sol.Y...), iter: sol.Iter, phase1: sol.Phase1, basis: append([]int(nil), sol.Basis...)}
 	if second && e.slacksMayMove(sol.Y) {
 		if sol2, err := e.secondStage(sol, hidden); err == nil {
 			p.iter += sol2.Iter
@@ -325,6 +339,24 @@ func (e *envelope) slacksMayMove(y []float64) bool {
 		}
 	}
 	return false
+}
+
+// columnScale is the power of two nearest the largest entry of v (1 when v
+// has no positive entry).
+func columnScale(v []float64) float64 {
+	top := 0.0
+	for _, x := range v {
+		top = math.Max(top, x)
+	}
+	if top <= 0 || math.IsInf(top, 0) {
+		return 1
+	}
+	return pow2(top)
+}
+
+func pow2(v float64) float64 {
+	_, e := math.Frexp(v)
+	return math.Ldexp(1, e-1)
 }
 
 func zero(v []float64) {

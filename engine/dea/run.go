@@ -379,6 +379,31 @@ func (ev *evaluator) unit(o int) UnitResult {
 		u.Expansion = p.score
 	}
 	u.Cert = e.certify(p, x0, y0, o, ev.checkSet(e, o, false))
+	if !u.Cert.Verified {
+		// Rare, on badly scaled data: solve again with the solver's own
+		// scaling and a fresh phase 1, and keep that answer if it checks out.
+		saved := append([]float64(nil), p.lambda...) // solve reuses the lambda buffer
+		e.careful = true
+		q, err2 := e.solve(x0, y0, o, false, m.SecondStage)
+		e.careful = false
+		adopted := false
+		if err2 == nil {
+			if (m.Orientation == Input && q.score > 1) || (m.Orientation == Output && q.score < 1) {
+				q.score = 1
+			}
+			if c := e.certify(q, x0, y0, o, ev.checkSet(e, o, false)); c.Verified {
+				adopted = true
+				p, u.Cert = q, c
+				u.Score = scoreOf(m, p.score)
+				if m.Orientation == Output {
+					u.Expansion = p.score
+				}
+			}
+		}
+		if !adopted {
+			copy(p.lambda, saved)
+		}
+	}
 	ev.fill(&u, e, p, o)
 	if m.ScaleDetail {
 		ev.scale(&u, o)

@@ -74,14 +74,16 @@ func (ev *evaluator) super(u *UnitResult, o int) {
 			u.SuperNote = superInfeasibleNote(m)
 			return
 		}
-		cert := e.certify(p, x0, y0, -1, others)
-		u.SuperCert = &cert
 		if m.Orientation == Output && p.score <= scoreTol {
+			cert := e.certifyNoExpansion(p, x0, y0, others)
+			u.SuperCert = &cert
 			// phi = 0: the other units can stay within the unit's inputs only
 			// by producing nothing, so 1/phi has no finite value.
 			u.SuperNote = fmt.Sprintf("no finite super-efficiency score: without this unit, no combination of the other units that stays within its inputs produces any of its outputs under %s returns to scale; the unit is efficient and sits at an edge of the data", m.Returns)
 			return
 		}
+		cert := e.certify(p, x0, y0, -1, others)
+		u.SuperCert = &cert
 		s := scoreOf(radial, p.score)
 		u.Super = &s
 		return

@@ -3,7 +3,8 @@ package dea_test
 // Seeded generators of data that is hard for simplex codes (see
 // /work/shared/CHECKS.md): duplicated units, ties on the frontier, units
 // dominated only through slacks, zero cells, collinear measures, magnitudes
-// from 1e-4 to 1e7, many units exactly on the frontier, a single unit, all
+// from 1e-4 to 1e7, units whose sizes differ by eight orders of magnitude,
+// many units exactly on the frontier, a single unit, all
 // units identical. Every generated unit keeps a positive input and a
 // positive output, and every measure has a positive mean (the second stage
 // weighs slacks by 1/mean).
@@ -22,7 +23,7 @@ import (
 // genKinds lists every generator by name, in a fixed order.
 var genKinds = []string{
 	"plain", "duplicates", "ties", "slack", "zeros", "collinear",
-	"magnitudes", "degenerate", "single", "identical", "mixed",
+	"magnitudes", "degenerate", "single", "identical", "mixed", "sizes",
 }
 
 // genCase is one generated data set with what made it.
@@ -84,6 +85,13 @@ func generate(kind string, seed uint64, nFix int) genCase {
 			X = append(X, append([]float64(nil), X[0]...))
 			Y = append(Y, append([]float64(nil), Y[0]...))
 		}
+	case "sizes":
+		// Units of very different sizes: every measure of a unit scaled by
+		// one factor from 1e-3 to 1e5, so each measure spans about eight
+		// orders of magnitude, on top of magnitudes across measures.
+		X, Y = g.base(n, 0.7, 0.3)
+		g.sizes(X, Y)
+		g.magnitudes(X, Y)
 	case "mixed":
 		X, Y = g.base(n, 0.6+0.4*r.Float64(), 0.4)
 		g.duplicate(X, Y, 1+n/6)
@@ -226,6 +234,18 @@ func (g *gen) magnitudes(X, Y [][]float64) {
 			for j := range M {
 				M[j][i] *= f
 			}
+		}
+	}
+}
+
+func (g *gen) sizes(X, Y [][]float64) {
+	for j := range X {
+		f := math.Pow(10, -3+8*g.r.Float64())
+		for i := range X[j] {
+			X[j][i] *= f
+		}
+		for k := range Y[j] {
+			Y[j][k] *= f
 		}
 	}
 }
