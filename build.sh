@@ -57,7 +57,8 @@ bench)
 	# Speed side by side: the engine natively and as WebAssembly under Node,
 	# the per-unit HiGHS baseline and the floor, for each study size.
 	# BENCH_SIZES (default 1000,10000,100000) and BENCH_SAMPLE_<n> (units the
-	# baseline solves at size n) change the run. Everything goes to .cache/.
+	# baseline solves at size n) change the run; BENCH_BROWSER=0 leaves out
+	# the run in headless Chromium. Everything goes to .cache/.
 	command -v node >/dev/null 2>&1 || need_packages
 	sizes=${BENCH_SIZES:-1000,10000,100000}
 	cache=.cache/bench-node
@@ -90,6 +91,14 @@ bench)
 	echo
 	echo "== Results (wall-clock seconds and CPU seconds; ratios measured in this run)"
 	"$out/peerbench" -table "$out/native.jsonl" "$out/wasm.jsonl" "$out/highs.jsonl"
+	# The page's own engine (engine.js and its pool of workers) in headless
+	# Chromium, at the same sizes; BENCH_BROWSER=0 skips it.
+	if [ "${BENCH_BROWSER:-1}" != 0 ]; then
+		echo
+		echo "== The page's engine in headless Chromium (wall time, workers, progress updates, peak memory)"
+		go build -o "$out/browserbench" ./site/browserbench
+		"$out/browserbench" -n "$sizes" | tee "$out/browser.txt"
+	fi
 	;;
 *)
 	echo "usage: ./build.sh serve|test|dist|bench" >&2

@@ -7,7 +7,7 @@
 //   const parsed = await eng.parseFile(file);          // CSV/TSV/text, or .xlsx
 //   const study = await eng.demo();
 //   const issues = await eng.validate(study);
-//   const {promise, cancel} = eng.run(study, {onProgress(done, total) {}});
+//   const {promise, cancel} = eng.run(study, {onProgress(done, total, phase) {}});
 //   const result = await promise;                      // rejects with Cancelled after cancel()
 //   const report = await eng.explain(study, result, k); // k: index into result.units
 //   const text = await eng.exportCSV(study, result);
@@ -20,9 +20,20 @@
 // any other way) and starts a fresh one. Every request sends a copy of the
 // page's data, so a cancelled run leaves the page's study untouched.
 //
-// A run may later be split over several runners (one per
-// navigator.hardwareConcurrency) with the worker's `units` argument; the
-// runner pool below is where that belongs.
+// A large run is shared by a pool of runners (up to one per processor,
+// navigator.hardwareConcurrency, at most MAX_RUNNERS): one finds the
+// candidate set of frontier units first (the worker's frontier request),
+// then each runner compares an interleaved share of the units against it
+// (run with units and frontier), and the shares are put back together here:
+// units in order, peer counts recounted over all of them. That is
+// bookkeeping only; every number comes from the engine. Progress reports
+// the phase ('frontier', then 'units') as a third argument. Cancelling
+// terminates every runner of the pool.
+
+// POOL_FROM is the number of included units from which a run is shared;
+// below it one runner is quicker than starting several.
+const POOL_FROM = 2000;
+const MAX_RUNNERS = 8;
 
 const XLSX_TYPE = 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet';
 
@@ -204,18 +215,38 @@ export class Engine {
     return new Blob([buf], { type: XLSX_TYPE });
   }
 
-  // run compares the units of study on a runner worker. It returns at once
-  // with {promise, cancel}; onProgress(done, total) reports units done.
+  // run compares the units of study on runner workers. It returns at once
+  // with {promise, cancel}; onProgress(done, total, phase) reports units
+  // done (phase 'units'), or that the frontier is being found first (phase
+  // 'frontier', done 0).
   run(study, { onProgress, units } = {}) {
+    const k = runnerCount();
+    if (units || k < 2 || includedCount(study) < POOL_FROM) return this.runOne(study, { onProgress, units });
+    return this.runShared(study, k, onProgress);
+  }
+
+  // takeRunner returns the warmed-up spare runner, or a new one.
+  takeRunner() {
     const runner = this.spare && !this.spare.dead ? this.spare : new Client(this.cfg);
     this.spare = null;
+    return runner;
+  }
+
+  // keepOrStop keeps a runner that finished as the spare for the next run.
+  keepOrStop(runner) {
+    if (runner.dead) return;
+    if (!this.spare) this.spare = runner;
+    else runner.terminate(new EngineError('The runner was stopped.'));
+  }
+
+  runOne(study, { onProgress, units }) {
+    const runner = this.takeRunner();
     let cancelled = false;
+    const progress = onProgress && ((done, total) => onProgress(done, total, 'units'));
     const promise = runner.ready
-      .then((c) => c.call('run', units ? [study, units] : [study], { onProgress }))
+      .then((c) => c.call('run', units ? [study, units] : [study], { onProgress: progress }))
       .finally(() => {
-        if (cancelled || runner.dead) return;
-        if (!this.spare) this.spare = runner; // reuse it for the next run
-        else runner.terminate(new EngineError('The runner was stopped.'));
+        if (!cancelled) this.keepOrStop(runner);
       });
     const cancel = () => {
       if (cancelled) return;
@@ -226,12 +257,99 @@ export class Engine {
     return { promise, cancel };
   }
 
+  // runShared spreads one run over k runners (see the top of this file).
+  runShared(study, k, onProgress) {
+    const runners = [this.takeRunner()];
+    for (let w = 1; w < k; w++) runners.push(new Client(this.cfg));
+    let cancelled = false;
+    const stopAll = (err) => runners.forEach((r) => r.terminate(err));
+    const tell = (done, total, phase) => {
+      if (!onProgress) return;
+      try {
+        onProgress(done, total, phase);
+      } catch (err) {
+        console.error(err);
+      }
+    };
+    const work = async () => {
+      tell(0, includedCount(study), 'frontier');
+      const first = await runners[0].ready;
+      const fs = await first.call('frontier', [study]);
+      const total = fs.units;
+      const shares = runners.map(() => []);
+      for (let j = 0; j < total; j++) shares[j % k].push(j); // interleaved: similar work for each
+      const done = runners.map(() => 0);
+      tell(0, total, 'units');
+      const parts = await Promise.all(runners.map((r, w) => r.ready.then((c) =>
+        c.call('run', [study, shares[w], fs.frontier], {
+          onProgress(d) {
+            done[w] = d;
+            tell(done.reduce((a, b) => a + b, 0), total, 'units');
+          },
+        }))));
+      return mergeShares(parts, fs.frontier);
+    };
+    const promise = work().then(
+      (result) => {
+        this.keepOrStop(runners[0]);
+        runners.slice(1).forEach((r) => r.terminate(new EngineError('The runner was stopped.')));
+        return result;
+      },
+      (err) => {
+        if (!cancelled) stopAll(new EngineError('The runner was stopped.')); // one share failed: stop the others
+        throw err;
+      });
+    const cancel = () => {
+      if (cancelled) return;
+      cancelled = true;
+      stopAll(new Cancelled());
+      if (!this.spare || this.spare.dead) this.spare = new Client(this.cfg);
+    };
+    return { promise, cancel };
+  }
+
   // close stops every worker.
   close() {
     const err = new EngineError('The engine was closed.');
     this.main.terminate(err);
     if (this.spare) this.spare.terminate(err);
   }
+}
+
+// runnerCount is how many runners share a large run.
+function runnerCount() {
+  const n = (typeof navigator !== 'undefined' && navigator.hardwareConcurrency) || 2;
+  return Math.max(1, Math.min(n, MAX_RUNNERS));
+}
+
+// includedCount is the number of units of a study (its file form) that
+// take part in a run: all but the ones left out.
+function includedCount(study) {
+  if (!study || typeof study !== 'object' || !Array.isArray(study.units)) return 0;
+  const out = new Set(Array.isArray(study.leftOut) ? study.leftOut : []);
+  return out.size ? study.units.filter((u) => !out.has(u)).length : study.units.length;
+}
+
+// mergeShares puts the results of runs over disjoint shares of the units
+// back together as one result, as the engine's own dea.Merge does: units
+// in order of their index, and each unit's peer count (how many other
+// units name it as a peer) recounted over all units.
+function mergeShares(parts, frontier) {
+  const units = [];
+  for (const p of parts) for (const u of p.units) units.push(u);
+  units.sort((a, b) => a.index - b.index);
+  const at = new Map();
+  units.forEach((u, k) => {
+    u.peerCount = 0;
+    at.set(u.index, k);
+  });
+  for (const u of units) {
+    for (const p of u.peers || []) {
+      const k = p.index === u.index ? undefined : at.get(p.index);
+      if (k !== undefined) units[k].peerCount++;
+    }
+  }
+  return { ...parts[0], units, frontier };
 }
 
 // isZip reports whether a file starts like a zip archive (an .xlsx file

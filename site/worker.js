@@ -24,7 +24,10 @@
 //   parseXLSX    [ArrayBuffer, sheetName?]         {table, study, problems, sheets, sheet}
 //   demo         []                                study
 //   validate     [study]                           [issue]
-//   run          [study, units?]                   result  (units: indices into the included units)
+//   frontier     [study]                           {frontier, units}  (candidate set, indices into the
+//                                                  included units; units: how many are included)
+//   run          [study, units?, frontier?]        result  (units: indices into the included units;
+//                                                  frontier: the candidate set from frontier)
 //   explain      [model, unitResult]               {unit, summary, sections}
 //   describe     [model]                           {sentences, sources, cautions}
 //   exportCSV    [study, result]                   string
@@ -37,7 +40,8 @@
 // The studies and results are the engine's JSON forms (see wasm/main.go).
 // The spreadsheet module (peerlens-sheets.wasm) is loaded only when
 // parseXLSX or exportXLSX is first asked for. Several workers can run side
-// by side, each given a share of the units through run's units argument.
+// by side, each given a share of the units through run's units argument and
+// the candidate set one of them found first through frontier.
 'use strict';
 
 let base = '';
@@ -111,9 +115,11 @@ const ops = {
   },
   demo: () => check(engine.demo()),
   validate: (study) => check(engine.validate(study)),
-  run(study, units, id) {
+  frontier: (study) => check(engine.frontier(study)),
+  run(study, units, frontier, id) {
     const progress = (done, total) => postMessage({ id, type: 'progress', done, total });
-    return check(engine.run(study, progress, units == null ? undefined : units));
+    const opt = (v) => (v == null ? undefined : v);
+    return check(engine.run(study, progress, opt(units), opt(frontier)));
   },
   explain: (model, unit) => check(engine.explain(model, unit)),
   describe: (model) => check(engine.describe(model)),
@@ -144,7 +150,7 @@ async function answer(msg) {
     if (!engine) throw new Error('The engine is not running; reload the page.');
     const fn = ops[op];
     if (!fn) throw new Error('unknown request ' + JSON.stringify(op));
-    if (op === 'run') args.length = 2; // study, units; then the request id
+    if (op === 'run') args.length = 3; // study, units, frontier; then the request id
     const value = await fn(...(op === 'run' ? [...args, id] : args));
     const transfer = value instanceof ArrayBuffer ? [value] : [];
     postMessage({ id, type: 'result', value }, transfer);

@@ -4,7 +4,6 @@ import (
 	"context"
 	"encoding/json"
 	"fmt"
-	"io/fs"
 	"os"
 	"os/exec"
 	"path/filepath"
@@ -17,6 +16,7 @@ import (
 	"github.com/chromedp/chromedp"
 
 	"peerlens/site/server/static"
+	"peerlens/site/sitecopy"
 )
 
 var (
@@ -55,7 +55,7 @@ func run(m *testing.M) int {
 	}
 	defer os.RemoveAll(tmp)
 	site := filepath.Join(tmp, "site")
-	if err := prepareSite(root, site); err != nil {
+	if err := sitecopy.Prepare(root, site); err != nil {
 		fmt.Fprintln(os.Stderr, "browsertest:", err)
 		return 1
 	}
@@ -70,73 +70,7 @@ func run(m *testing.M) int {
 }
 
 // moduleRoot finds the folder holding go.mod, upwards from here.
-func moduleRoot() (string, error) {
-	dir, err := os.Getwd()
-	if err != nil {
-		return "", err
-	}
-	for {
-		if _, err := os.Stat(filepath.Join(dir, "go.mod")); err == nil {
-			return dir, nil
-		}
-		parent := filepath.Dir(dir)
-		if parent == dir {
-			return "", fmt.Errorf("no go.mod above the test folder")
-		}
-		dir = parent
-	}
-}
-
-// prepareSite copies the page's files (not the server or these tests) and
-// builds the engine bridge to WebAssembly beside them, as build.sh does.
-func prepareSite(root, dst string) error {
-	src := filepath.Join(root, "site")
-	err := filepath.WalkDir(src, func(path string, d fs.DirEntry, err error) error {
-		if err != nil {
-			return err
-		}
-		rel, _ := filepath.Rel(src, path)
-		if d.IsDir() {
-			if rel == "server" || rel == "browsertest" {
-				return filepath.SkipDir
-			}
-			return os.MkdirAll(filepath.Join(dst, rel), 0o755)
-		}
-		if strings.HasSuffix(rel, ".wasm") || rel == "wasm_exec.js" {
-			return nil // built fresh below
-		}
-		b, err := os.ReadFile(path)
-		if err != nil {
-			return err
-		}
-		return os.WriteFile(filepath.Join(dst, rel), b, 0o644)
-	})
-	if err != nil {
-		return err
-	}
-	// The engine, and the spreadsheet module the page loads to read and
-	// write .xlsx files (as build.sh's build_wasm does).
-	for _, b := range []struct{ out, pkg string }{{"peerlens.wasm", "./wasm"}, {"peerlens-sheets.wasm", "./wasm/sheets"}} {
-		if _, err := os.Stat(filepath.Join(root, b.pkg)); err != nil {
-			continue
-		}
-		build := exec.Command("go", "build", "-o", filepath.Join(dst, b.out), b.pkg)
-		build.Dir = root
-		build.Env = append(os.Environ(), "GOOS=js", "GOARCH=wasm")
-		if out, err := build.CombinedOutput(); err != nil {
-			return fmt.Errorf("building %s: %v\n%s", b.pkg, err, out)
-		}
-	}
-	goroot, err := exec.Command("go", "env", "GOROOT").Output()
-	if err != nil {
-		return fmt.Errorf("go env GOROOT: %v", err)
-	}
-	b, err := os.ReadFile(filepath.Join(strings.TrimSpace(string(goroot)), "lib", "wasm", "wasm_exec.js"))
-	if err != nil {
-		return err
-	}
-	return os.WriteFile(filepath.Join(dst, "wasm_exec.js"), b, 0o644)
-}
+func moduleRoot() (string, error) { return sitecopy.ModuleRoot() }
 
 // tab is one browser with the page open, and what it logged.
 type tab struct {

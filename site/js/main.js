@@ -192,10 +192,14 @@ async function runStudy() {
   let handle;
   try {
     handle = startRun(snapshot, {
-      onProgress(done, total) {
+      onProgress(done, total, phase) {
         if (state.run !== handle) return;
         bar.max = Math.max(1, total);
         bar.value = done;
+        if (phase === 'frontier') {
+          say('run-status', 'Finding the units on the frontier first (' + total + ' units)…', 'busy');
+          return;
+        }
         say('run-status', 'Comparing the units: ' + done + ' of ' + total + ' done. Results appear when all are done.', 'busy');
       },
     });
