@@ -43,17 +43,16 @@ import (
 
 // Measure is one study size's figures.
 type Measure struct {
-	Units         int     `json:"units"`
-	Workers       int     `json:"workers"` // runner workers the run used
-	Processors    int     `json:"hardwareConcurrency"`
-	WallSec       float64 `json:"wallSec"`
-	FrontierSec   float64 `json:"frontierSec"` // until the first units progress
-	Updates       int     `json:"progressUpdates"`
-	Frontier      int     `json:"frontier"`
-	PeakHeapMB    float64 `json:"peakPageHeapMB"`
-	PeakRSSMB     float64 `json:"peakChromiumRSSMB"`
-	Load1         string  `json:"loadAverage"` // /proc/loadavg at the start and at the end
-	ChromiumFlags string  `json:"-"`
+	Units       int     `json:"units"`
+	Workers     int     `json:"workers"` // runner workers the run used
+	Processors  int     `json:"hardwareConcurrency"`
+	WallSec     float64 `json:"wallSec"`
+	FrontierSec float64 `json:"frontierSec"` // until the first units progress
+	Updates     int     `json:"progressUpdates"`
+	Frontier    int     `json:"frontier"`
+	PeakHeapMB  float64 `json:"peakPageHeapMB"`
+	PeakRSSMB   float64 `json:"peakChromiumRSSMB"`
+	Load1       string  `json:"loadAverage"` // /proc/loadavg at the start and at the end
 }
 
 // pageState is what the page keeps about the run, polled from here.
@@ -174,22 +173,7 @@ const startJS = `(async () => {
 })(), true`
 
 func measure(base, studyFile, chrome, profile string, limit time.Duration) (*Measure, error) {
-	opts := []chromedp.ExecAllocatorOption{
-		chromedp.ExecPath(chrome),
-		chromedp.NoFirstRun,
-		chromedp.NoDefaultBrowserCheck,
-		chromedp.Headless,
-		chromedp.NoSandbox,
-		chromedp.DisableGPU,
-		chromedp.Flag("disable-background-networking", true),
-		chromedp.Flag("disable-component-update", true),
-		chromedp.Flag("disable-sync", true),
-		chromedp.Flag("disable-dev-shm-usage", true),
-		chromedp.Flag("disable-background-timer-throttling", true),
-		chromedp.Flag("disable-renderer-backgrounding", true),
-		chromedp.Flag("enable-precise-memory-info", true),
-		chromedp.UserDataDir(profile),
-	}
+	opts := append(sitecopy.ChromiumOptions(chrome, profile), chromedp.Flag("enable-precise-memory-info", true))
 	actx, cancelAlloc := chromedp.NewExecAllocator(context.Background(), opts...)
 	defer cancelAlloc()
 	ctx, cancelCtx := chromedp.NewContext(actx)

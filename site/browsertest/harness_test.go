@@ -89,22 +89,7 @@ func open(t *testing.T, width, height int) *tab {
 	if skipReason != "" {
 		t.Skip(skipReason)
 	}
-	opts := []chromedp.ExecAllocatorOption{
-		chromedp.ExecPath(chromePath),
-		chromedp.NoFirstRun,
-		chromedp.NoDefaultBrowserCheck,
-		chromedp.Headless,
-		chromedp.NoSandbox,
-		chromedp.DisableGPU,
-		chromedp.Flag("disable-background-networking", true),
-		chromedp.Flag("disable-component-update", true),
-		chromedp.Flag("disable-sync", true),
-		chromedp.Flag("disable-dev-shm-usage", true),
-		chromedp.Flag("disable-background-timer-throttling", true),
-		chromedp.Flag("disable-renderer-backgrounding", true),
-		chromedp.UserDataDir(t.TempDir()),
-		chromedp.WindowSize(width, height),
-	}
+	opts := append(sitecopy.ChromiumOptions(chromePath, t.TempDir()), chromedp.WindowSize(width, height))
 	actx, cancelAlloc := chromedp.NewExecAllocator(context.Background(), opts...)
 	ctx, cancelCtx := chromedp.NewContext(actx)
 	ctx, cancelTime := context.WithTimeout(ctx, 150*time.Second)
