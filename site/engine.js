@@ -59,8 +59,9 @@ function setup() {
   const offline = globalThis.peerlensOffline;
   if (offline && offline.workerURL) {
     // The single-file build: this module is a blob: URL, which has no
-    // folder; the spreadsheet module is not part of that file.
-    return { workerURL: offline.workerURL, wasm: offline.wasm, base: '' };
+    // folder; the spreadsheet module comes as bytes too (offline.sheets) and
+    // is handed to the worker when a workbook is first opened or written.
+    return { workerURL: offline.workerURL, wasm: offline.wasm, sheets: offline.sheets || null, base: '' };
   }
   const base = new URL('./', import.meta.url).href;
   return { workerURL: new URL('./worker.js', base).href, wasm: null, base };
@@ -178,8 +179,22 @@ export class Engine {
     }
     const buf = await file.arrayBuffer();
     const c = await this.mainReady();
-    if (/\.(xlsx|xlsm)$/i.test(name) || isZip(buf)) return c.call('parseXLSX', [buf, sheet], { transfer: [buf] });
+    if (/\.(xlsx|xlsm)$/i.test(name) || isZip(buf)) {
+      await this.giveSheets(c);
+      return c.call('parseXLSX', [buf, sheet], { transfer: [buf] });
+    }
     return c.call('parseBytes', [buf], { transfer: [buf] });
+  }
+
+  // giveSheets hands the single-file build's spreadsheet module to a
+  // worker (compiled once); served pages let the worker fetch it itself.
+  async giveSheets(c) {
+    if (!this.cfg.sheets || c.sheetsGiven) return;
+    if (!this.cfg.sheetsModule) {
+      this.cfg.sheetsModule = Promise.resolve(this.cfg.sheets).then((bytes) => WebAssembly.compile(bytes));
+    }
+    await c.call('useSheets', [await this.cfg.sheetsModule]);
+    c.sheetsGiven = true;
   }
 
   mainReady() {
@@ -211,6 +226,7 @@ export class Engine {
   }
 
   async exportXLSX(study, result) {
+    await this.giveSheets(await this.mainReady());
     const buf = await this.request('exportXLSX', study, result, new Date().toISOString());
     return new Blob([buf], { type: XLSX_TYPE });
   }

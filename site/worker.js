@@ -32,6 +32,7 @@
 //   describe     [model]                           {sentences, sources, cautions}
 //   exportCSV    [study, result]                   string
 //   exportXLSX   [study, result, dateISO]          ArrayBuffer (transferred)
+//   useSheets    [WebAssembly.Module]              true (the single-file build hands over the spreadsheet module)
 // worker -> page, for each request:
 //   {id, type: 'progress', done, total}   run only, now and then (units done of total)
 //   {id, type: 'result', value}           success
@@ -112,6 +113,18 @@ const ops = {
     parsed.sheets = read.sheets;
     parsed.sheet = read.sheet;
     return parsed;
+  },
+  // useSheets takes the spreadsheet module from the page (the single-file
+  // build has no file to fetch it from).
+  async useSheets(module) {
+    if (!sheetsModule) {
+      sheetsModule = instantiate(module, 'peerlensSheets');
+      sheetsModule.catch(() => {
+        sheetsModule = null;
+      });
+    }
+    await sheetsModule;
+    return true;
   },
   demo: () => check(engine.demo()),
   validate: (study) => check(engine.validate(study)),

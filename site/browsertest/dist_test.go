@@ -1,16 +1,23 @@
 package browsertest
 
 import (
+	"bytes"
 	"os"
 	"os/exec"
 	"path/filepath"
 	"regexp"
 	"strings"
 	"testing"
+
+	"github.com/chromedp/cdproto/browser"
+	"github.com/chromedp/chromedp"
+	"github.com/xuri/excelize/v2"
+
+	"peerlens/site/sitecopy"
 )
 
-// buildDist builds the engine and the single-file page as ./build.sh dist
-// does, into a temporary folder, and returns the page's path.
+// buildDist builds the engine, the spreadsheet module and the single-file
+// page as ./build.sh dist does, into a temporary folder, and returns the page's path.
 func buildDist(t *testing.T) string {
 	t.Helper()
 	if skipReason != "" {
@@ -20,7 +27,7 @@ func buildDist(t *testing.T) string {
 	if err != nil {
 		t.Fatal(err)
 	}
-	dir := t.TempDir()
+	dir := sitecopy.TempDir(t)
 	wasm := filepath.Join(dir, "peerlens.wasm")
 	build := exec.Command("go", "build", "-trimpath", "-ldflags=-s -w", "-o", wasm, "./wasm")
 	build.Dir = root
@@ -28,12 +35,19 @@ func buildDist(t *testing.T) string {
 	if out, err := build.CombinedOutput(); err != nil {
 		t.Fatalf("building the engine: %v\n%s", err, out)
 	}
+	sheets := filepath.Join(dir, "peerlens-sheets.wasm")
+	build = exec.Command("go", "build", "-trimpath", "-ldflags=-s -w", "-o", sheets, "./wasm/sheets")
+	build.Dir = root
+	build.Env = append(os.Environ(), "GOOS=js", "GOARCH=wasm")
+	if out, err := build.CombinedOutput(); err != nil {
+		t.Fatalf("building the spreadsheet module: %v\n%s", err, out)
+	}
 	goroot, err := exec.Command("go", "env", "GOROOT").Output()
 	if err != nil {
 		t.Fatal(err)
 	}
 	page := filepath.Join(dir, "out", "peerlens.html")
-	dist := exec.Command("go", "run", "./site/dist", "-site", "site", "-wasm", wasm,
+	dist := exec.Command("go", "run", "./site/dist", "-site", "site", "-wasm", wasm, "-sheets", sheets,
 		"-wasm-exec", filepath.Join(strings.TrimSpace(string(goroot)), "lib", "wasm", "wasm_exec.js"), "-out", page)
 	dist.Dir = root
 	if out, err := dist.CombinedOutput(); err != nil {
@@ -68,6 +82,23 @@ func TestDistOfflineFromFile(t *testing.T) {
 	}
 	if got := eval[int](tb, `document.querySelectorAll('#results-table tbody tr[data-unit]').length`); got == 0 {
 		t.Error("the results table is empty")
+	}
+	// The workbook export works offline too: the spreadsheet module comes
+	// from inside the file.
+	dir := sitecopy.TempDir(t)
+	if _, err := chromedp.CallBrowser(tb.ctx, browser.SetDownloadBehavior, browser.SetDownloadBehaviorParams{
+		Behavior:      browser.SetDownloadBehaviorBehaviorAllowAndName,
+		DownloadPath:  dir,
+		EventsEnabled: ptr(true),
+	}); err != nil {
+		t.Fatalf("allowing downloads: %v", err)
+	}
+	book, err := excelize.OpenReader(bytes.NewReader(tb.download("#export-xlsx", dir)))
+	if err != nil {
+		t.Fatalf("the offline .xlsx export does not open: %v", err)
+	}
+	if rows, err := book.GetRows("Results"); err != nil || len(rows) < 3 {
+		t.Errorf("offline .xlsx Results sheet: %d rows, %v", len(rows), err)
 	}
 	tb.checkPolicy()
 	csp := eval[string](tb, `document.querySelector('meta[http-equiv="Content-Security-Policy"]').content`)

@@ -89,7 +89,7 @@ func open(t *testing.T, width, height int) *tab {
 	if skipReason != "" {
 		t.Skip(skipReason)
 	}
-	opts := append(sitecopy.ChromiumOptions(chromePath, t.TempDir()), chromedp.WindowSize(width, height))
+	opts := append(sitecopy.ChromiumOptions(chromePath, sitecopy.TempDir(t)), chromedp.WindowSize(width, height))
 	actx, cancelAlloc := chromedp.NewExecAllocator(context.Background(), opts...)
 	ctx, cancelCtx := chromedp.NewContext(actx)
 	ctx, cancelTime := context.WithTimeout(ctx, 150*time.Second)
@@ -301,7 +301,7 @@ func (tb *tab) screenshot(name string) string {
 	}
 	dir := os.Getenv("PEERLENS_SHOTS")
 	if dir == "" {
-		dir = tb.t.TempDir()
+		dir = sitecopy.TempDir(tb.t)
 	}
 	if err := os.MkdirAll(dir, 0o755); err != nil {
 		tb.t.Fatal(err)

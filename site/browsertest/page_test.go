@@ -20,6 +20,7 @@ import (
 
 	"peerlens/engine/dea"
 	"peerlens/engine/study"
+	"peerlens/site/sitecopy"
 )
 
 // demoTSV writes the demo study as the tab-separated text a spreadsheet
@@ -227,7 +228,7 @@ func TestExportsHoldWhatTheTableShows(t *testing.T) {
 	tb := open(t, 1280, 900)
 	tb.runStudy()
 	shown := tb.shownScores()
-	dir := t.TempDir()
+	dir := sitecopy.TempDir(t)
 	if _, err := chromedp.CallBrowser(tb.ctx, browser.SetDownloadBehavior, browser.SetDownloadBehaviorParams{
 		Behavior:      browser.SetDownloadBehaviorBehaviorAllowAndName,
 		DownloadPath:  dir,
@@ -537,7 +538,7 @@ func TestFrontierOutlineGeometry(t *testing.T) {
 func TestOpenFilesAndNumberReading(t *testing.T) {
 	t.Parallel()
 	tb := open(t, 1280, 900)
-	dir := t.TempDir()
+	dir := sitecopy.TempDir(t)
 	csvPath := filepath.Join(dir, "depots.csv")
 	if err := os.WriteFile(csvPath, []byte("Depot,Drivers,Fuel,Parcels\nNorth,12,340,5200\nSouth,9,310,4100\nEast,15,420,6100\nWest,7,250,3900\n"), 0o644); err != nil {
 		t.Fatal(err)

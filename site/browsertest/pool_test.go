@@ -15,6 +15,7 @@ import (
 
 	"peerlens/engine/bench"
 	"peerlens/engine/dea"
+	"peerlens/site/sitecopy"
 )
 
 // pooledUnits is large enough for engine.js to share the run among workers
@@ -48,7 +49,7 @@ func TestPooledRunMatchesNativeEngine(t *testing.T) {
 	if err := s.Write(&file); err != nil {
 		t.Fatal(err)
 	}
-	path := filepath.Join(t.TempDir(), "generated.json")
+	path := filepath.Join(sitecopy.TempDir(t), "generated.json")
 	if err := os.WriteFile(path, file.Bytes(), 0o644); err != nil {
 		t.Fatal(err)
 	}

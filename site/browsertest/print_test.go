@@ -9,6 +9,8 @@ import (
 	"time"
 
 	"github.com/chromedp/chromedp"
+
+	"peerlens/site/sitecopy"
 )
 
 // TestPrintedReport runs the demo study, prints the page to PDF and checks,
@@ -28,7 +30,7 @@ func TestPrintedReport(t *testing.T) {
 	if err != nil {
 		t.Fatalf("printing to PDF: %v", err)
 	}
-	dir := t.TempDir()
+	dir := sitecopy.TempDir(t)
 	in := filepath.Join(dir, "report.pdf")
 	if err := os.WriteFile(in, pdf, 0o644); err != nil {
 		t.Fatal(err)

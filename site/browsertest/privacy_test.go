@@ -20,6 +20,7 @@ import (
 	"github.com/chromedp/chromedp"
 
 	"peerlens/site/server/static"
+	"peerlens/site/sitecopy"
 )
 
 // watchScript runs in the page before any of its own scripts and records
@@ -105,7 +106,7 @@ func browseWith(t *testing.T, addr, dir, ready string, offline bool) (*tab, *req
 	if offline {
 		cut = append(cut, chromedp.ProxyServer("http://127.0.0.1:9"), chromedp.Flag("proxy-bypass-list", "<-loopback>"))
 	}
-	netlog := filepath.Join(t.TempDir(), "netlog.json")
+	netlog := filepath.Join(sitecopy.TempDir(t), "netlog.json")
 	cut = append(cut, chromedp.Flag("log-net-log", netlog))
 	actx, cancelAlloc := chromedp.NewExecAllocator(context.Background(), append(cut,
 		chromedp.ExecPath(chromePath),
@@ -119,7 +120,7 @@ func browseWith(t *testing.T, addr, dir, ready string, offline bool) (*tab, *req
 		chromedp.Flag("disable-sync", true),
 		chromedp.Flag("disable-dev-shm-usage", true),
 		chromedp.Flag("allow-file-access-from-files", false),
-		chromedp.UserDataDir(t.TempDir()),
+		chromedp.UserDataDir(sitecopy.TempDir(t)),
 		chromedp.WindowSize(1280, 900),
 	)...)
 	ctx, cancelCtx := chromedp.NewContext(actx)
@@ -214,7 +215,7 @@ func (tb *tab) checkPolicy() {
 // and exports CSV and .xlsx, and checks that every request went to the
 // page's own files and that the security policy was never broken.
 func TestOnlyOwnFiles(t *testing.T) {
-	dir := t.TempDir()
+	dir := sitecopy.TempDir(t)
 	tb, reqs := browse(t, baseURL, dir, `window.peerlens && window.peerlens.loads >= 1`)
 	tb.runStudy()
 	tb.click(`#results-table .unit-link`)

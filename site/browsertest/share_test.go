@@ -10,6 +10,8 @@ import (
 	"time"
 
 	"github.com/chromedp/chromedp"
+
+	"peerlens/site/sitecopy"
 )
 
 const demoReady = `window.peerlens && window.peerlens.loads >= 1`
@@ -53,7 +55,7 @@ func (tb *tab) waitRestored(runsBefore int) {
 }
 
 func TestStudyFileRoundTrip(t *testing.T) {
-	dir := t.TempDir()
+	dir := sitecopy.TempDir(t)
 	tb, _ := browse(t, baseURL, dir, demoReady)
 	want := tb.editDemo()
 	tb.click("#save-study")
@@ -84,7 +86,7 @@ func TestStudyFileRoundTrip(t *testing.T) {
 }
 
 func TestStudyFileNotJSON(t *testing.T) {
-	dir := t.TempDir()
+	dir := sitecopy.TempDir(t)
 	tb, _ := browse(t, baseURL, "", demoReady)
 	bad := dir + "/notes.json"
 	if err := os.WriteFile(bad, []byte("Unit,Staff\nNorth,3\n"), 0o644); err != nil {

@@ -13,6 +13,7 @@ import (
 	"github.com/chromedp/chromedp"
 
 	"peerlens/site/server/static"
+	"peerlens/site/sitecopy"
 )
 
 var (
@@ -125,7 +126,7 @@ func browser(t *testing.T) context.Context {
 		chromedp.NoSandbox, chromedp.DisableGPU,
 		chromedp.Flag("disable-background-networking", true), chromedp.Flag("disable-component-update", true),
 		chromedp.Flag("disable-sync", true), chromedp.Flag("disable-dev-shm-usage", true),
-		chromedp.UserDataDir(t.TempDir()),
+		chromedp.UserDataDir(sitecopy.TempDir(t)),
 	}
 	actx, cancelAlloc := chromedp.NewExecAllocator(context.Background(), opts...)
 	ctx, cancelCtx := chromedp.NewContext(actx)
