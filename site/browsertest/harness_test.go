@@ -189,8 +189,19 @@ func (tb *tab) waitFor(cond string, limit time.Duration, what string) {
 
 func (tb *tab) click(sel string) {
 	tb.t.Helper()
-	if err := chromedp.Do(tb.ctx, chromedp.Click(chromedp.CSS(sel), chromedp.NodeVisible)); err != nil {
-		tb.t.Fatalf("clicking %s: %v", sel, err)
+	// The page redraws windowed tables as data change; a node found a moment
+	// ago can be replaced before the click lands, so a vanished node is
+	// looked up again (for a few seconds at most).
+	deadline := time.Now().Add(5 * time.Second)
+	for {
+		err := chromedp.Do(tb.ctx, chromedp.Click(chromedp.CSS(sel), chromedp.NodeVisible))
+		if err == nil {
+			return
+		}
+		if !strings.Contains(err.Error(), "Could not find node") || time.Now().After(deadline) {
+			tb.t.Fatalf("clicking %s: %v", sel, err)
+		}
+		time.Sleep(100 * time.Millisecond)
 	}
 }
 
