@@ -9,8 +9,6 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/chromedp/cdproto/browser"
-	"github.com/chromedp/chromedp"
 	"github.com/xuri/excelize/v2"
 
 	"peerlens/site/sitecopy"
@@ -85,14 +83,7 @@ func TestDistOfflineFromFile(t *testing.T) {
 	}
 	// The workbook export works offline too: the spreadsheet module comes
 	// from inside the file.
-	dir := sitecopy.TempDir(t)
-	if _, err := chromedp.CallBrowser(tb.ctx, browser.SetDownloadBehavior, browser.SetDownloadBehaviorParams{
-		Behavior:      browser.SetDownloadBehaviorBehaviorAllowAndName,
-		DownloadPath:  dir,
-		EventsEnabled: ptr(true),
-	}); err != nil {
-		t.Fatalf("allowing downloads: %v", err)
-	}
+	dir := tb.allowDownloads()
 	book, err := excelize.OpenReader(bytes.NewReader(tb.download("#export-xlsx", dir)))
 	if err != nil {
 		t.Fatalf("the offline .xlsx export does not open: %v", err)

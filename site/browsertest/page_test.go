@@ -193,6 +193,22 @@ func TestFrontierChartMarksAndTargetPath(t *testing.T) {
 	}
 }
 
+// allowDownloads sends the browser's downloads to a fresh folder, with
+// progress events (each file is saved under its download's GUID), and
+// returns the folder.
+func (tb *tab) allowDownloads() string {
+	tb.t.Helper()
+	dir := sitecopy.TempDir(tb.t)
+	if _, err := chromedp.CallBrowser(tb.ctx, browser.SetDownloadBehavior, browser.SetDownloadBehaviorParams{
+		Behavior:      browser.SetDownloadBehaviorBehaviorAllowAndName,
+		DownloadPath:  dir,
+		EventsEnabled: ptr(true),
+	}); err != nil {
+		tb.t.Fatalf("allowing downloads: %v", err)
+	}
+	return dir
+}
+
 // download clicks a button and returns the file the browser saved.
 func (tb *tab) download(sel, dir string) []byte {
 	tb.t.Helper()
@@ -228,14 +244,7 @@ func TestExportsHoldWhatTheTableShows(t *testing.T) {
 	tb := open(t, 1280, 900)
 	tb.runStudy()
 	shown := tb.shownScores()
-	dir := sitecopy.TempDir(t)
-	if _, err := chromedp.CallBrowser(tb.ctx, browser.SetDownloadBehavior, browser.SetDownloadBehaviorParams{
-		Behavior:      browser.SetDownloadBehaviorBehaviorAllowAndName,
-		DownloadPath:  dir,
-		EventsEnabled: ptr(true),
-	}); err != nil {
-		t.Fatalf("allowing downloads: %v", err)
-	}
+	dir := tb.allowDownloads()
 	check := func(kind string, rows [][]string) {
 		t.Helper()
 		if len(rows) < 2 {
