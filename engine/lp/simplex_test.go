@@ -187,31 +187,7 @@ func TestDegenerateDEAShape(t *testing.T) {
 		}
 	}
 	for o := 0; o < n; o++ {
-		// columns: theta, lambdas, input slacks, output slacks; rows: inputs, outputs, convexity.
-		rows := mi + so + 1
-		cols := 1 + n + mi + so
-		a := make([]float64, rows*cols)
-		for i := 0; i < mi; i++ {
-			a[0*rows+i] = -x[o][i]
-		}
-		for j := 0; j < n; j++ {
-			c := a[(1+j)*rows : (2+j)*rows]
-			copy(c, x[j])
-			copy(c[mi:], y[j])
-			c[mi+so] = 1
-		}
-		for i := 0; i < mi; i++ {
-			a[(1+n+i)*rows+i] = 1
-		}
-		for r := 0; r < so; r++ {
-			a[(1+n+mi+r)*rows+mi+r] = -1
-		}
-		b := make([]float64, rows)
-		copy(b[mi:], y[o])
-		b[mi+so] = 1
-		c := make([]float64, cols)
-		c[0] = 1
-		sol, err := Solve(&Problem{Rows: rows, A: a, B: b, C: c}, nil)
+		sol, err := Solve(deaProblem(x, y, o), nil)
 		if err != nil {
 			t.Fatalf("unit %d: %v", o, err)
 		}

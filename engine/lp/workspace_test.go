@@ -8,10 +8,8 @@ import (
 
 // randomDEA builds a variable-returns, input-oriented DEA program (the shape
 // this package is for) over n random units with m inputs and s outputs, for
-// unit o: columns theta, lambda_1..n, m input slacks, s output slacks.
+// unit o (see deaProblem).
 func randomDEA(rng *rand.Rand, n, m, s, o int) *Problem {
-	rows := m + s + 1
-	cols := 1 + n + m + s
 	x := make([][]float64, n)
 	y := make([][]float64, n)
 	for j := range x {
@@ -23,6 +21,17 @@ func randomDEA(rng *rand.Rand, n, m, s, o int) *Problem {
 			y[j][r] = 1 + 9*rng.Float64()
 		}
 	}
+	return deaProblem(x, y, o)
+}
+
+// deaProblem is the variable-returns, input-oriented envelopment program of
+// unit o over units with inputs x[j] and outputs y[j]: columns theta,
+// lambda_1..n, the input slacks, the output slacks; rows the inputs, the
+// outputs and the convexity row.
+func deaProblem(x, y [][]float64, o int) *Problem {
+	n, m, s := len(x), len(x[0]), len(y[0])
+	rows := m + s + 1
+	cols := 1 + n + m + s
 	a := make([]float64, rows*cols)
 	for i := 0; i < m; i++ {
 		a[i] = -x[o][i]
