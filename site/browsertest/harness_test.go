@@ -81,18 +81,16 @@ type tab struct {
 	dialogs []string // messages of dialogs the page opened
 }
 
-// open starts a fresh browser at the given window size, opens the page and
-// waits until the engine has loaded the demo study. At the end of the test
-// it fails the test for every error the page logged.
-func open(t *testing.T, width, height int) *tab {
+// startBrowser starts a fresh headless Chromium with the project's options
+// (sitecopy.ChromiumOptions, a new profile) and extra, and returns a tab
+// whose context ends after timeout. Console errors and uncaught exceptions
+// are collected; at the end of the test each one fails it.
+func startBrowser(t *testing.T, timeout time.Duration, extra ...chromedp.ExecAllocatorOption) *tab {
 	t.Helper()
-	if skipReason != "" {
-		t.Skip(skipReason)
-	}
-	opts := append(sitecopy.ChromiumOptions(chromePath, sitecopy.TempDir(t)), chromedp.WindowSize(width, height))
+	opts := append(sitecopy.ChromiumOptions(chromePath, sitecopy.TempDir(t)), extra...)
 	actx, cancelAlloc := chromedp.NewExecAllocator(context.Background(), opts...)
 	ctx, cancelCtx := chromedp.NewContext(actx)
-	ctx, cancelTime := context.WithTimeout(ctx, 150*time.Second)
+	ctx, cancelTime := context.WithTimeout(ctx, timeout)
 	tb := &tab{t: t, ctx: ctx}
 	t.Cleanup(func() {
 		cancelTime()
@@ -112,6 +110,27 @@ func open(t *testing.T, width, height int) *tab {
 			}
 		}
 	}()
+	t.Cleanup(func() {
+		time.Sleep(100 * time.Millisecond) // let the last console messages arrive
+		tb.mu.Lock()
+		defer tb.mu.Unlock()
+		for _, e := range tb.errors {
+			t.Errorf("browser console error: %s", e)
+		}
+	})
+	return tb
+}
+
+// open starts a fresh browser at the given window size, opens the page and
+// waits until the engine has loaded the demo study. At the end of the test
+// it fails the test for every error the page logged.
+func open(t *testing.T, width, height int) *tab {
+	t.Helper()
+	if skipReason != "" {
+		t.Skip(skipReason)
+	}
+	tb := startBrowser(t, 150*time.Second, chromedp.WindowSize(width, height))
+	ctx := tb.ctx
 	dialogs := chromedp.Events(ctx, page.JavascriptDialogOpening)
 	go func() {
 		for ev, err := range dialogs {
@@ -124,14 +143,6 @@ func open(t *testing.T, width, height int) *tab {
 			_, _ = chromedp.Call(ctx, page.HandleJavaScriptDialog, page.HandleJavaScriptDialogParams{Accept: false})
 		}
 	}()
-	t.Cleanup(func() {
-		time.Sleep(100 * time.Millisecond) // let the last console messages arrive
-		tb.mu.Lock()
-		defer tb.mu.Unlock()
-		for _, e := range tb.errors {
-			t.Errorf("browser console error: %s", e)
-		}
-	})
 	start := time.Now()
 	if err := chromedp.Do(ctx, chromedp.Navigate(baseURL)); err != nil {
 		t.Fatalf("opening the page: %v", err)

@@ -2,7 +2,6 @@ package browsertest
 
 import (
 	"context"
-	"fmt"
 	"io"
 	"net/http"
 	"net/url"
@@ -107,30 +106,9 @@ func browseWith(t *testing.T, addr, dir, ready string, offline bool) (*tab, *req
 		cut = append(cut, chromedp.ProxyServer("http://127.0.0.1:9"), chromedp.Flag("proxy-bypass-list", "<-loopback>"))
 	}
 	netlog := filepath.Join(sitecopy.TempDir(t), "netlog.json")
-	cut = append(cut, chromedp.Flag("log-net-log", netlog))
-	actx, cancelAlloc := chromedp.NewExecAllocator(context.Background(), append(cut,
-		chromedp.ExecPath(chromePath),
-		chromedp.NoFirstRun,
-		chromedp.NoDefaultBrowserCheck,
-		chromedp.Headless,
-		chromedp.NoSandbox,
-		chromedp.DisableGPU,
-		chromedp.Flag("disable-background-networking", true),
-		chromedp.Flag("disable-component-update", true),
-		chromedp.Flag("disable-sync", true),
-		chromedp.Flag("disable-dev-shm-usage", true),
-		chromedp.Flag("allow-file-access-from-files", false),
-		chromedp.UserDataDir(sitecopy.TempDir(t)),
-		chromedp.WindowSize(1280, 900),
-	)...)
-	ctx, cancelCtx := chromedp.NewContext(actx)
-	ctx, cancelTime := context.WithTimeout(ctx, 170*time.Second)
-	tb := &tab{t: t, ctx: ctx}
-	t.Cleanup(func() {
-		cancelTime()
-		cancelCtx()
-		cancelAlloc()
-	})
+	cut = append(cut, chromedp.Flag("log-net-log", netlog), chromedp.Flag("allow-file-access-from-files", false), chromedp.WindowSize(1280, 900))
+	tb := startBrowser(t, 170*time.Second, cut...)
+	ctx := tb.ctx
 	reqs := &requests{ctx: ctx, netlog: netlog}
 	if err := chromedp.Listen(ctx, func(ev any) {
 		switch e := ev.(type) {
@@ -147,26 +125,6 @@ func browseWith(t *testing.T, addr, dir, ready string, offline bool) (*tab, *req
 	}); err != nil {
 		t.Fatalf("starting the browser: %v", err)
 	}
-	go func() {
-		for msg, err := range chromedp.Console(ctx) {
-			if err != nil {
-				return
-			}
-			if msg.Type == chromedp.ConsoleError || msg.Type == chromedp.ConsoleException || msg.Type == "assert" {
-				tb.mu.Lock()
-				tb.errors = append(tb.errors, fmt.Sprintf("%s (%s:%d)", msg.Text, msg.URL, msg.Line+1))
-				tb.mu.Unlock()
-			}
-		}
-	}()
-	t.Cleanup(func() {
-		time.Sleep(100 * time.Millisecond)
-		tb.mu.Lock()
-		defer tb.mu.Unlock()
-		for _, e := range tb.errors {
-			t.Errorf("browser console error: %s", e)
-		}
-	})
 	if _, err := chromedp.Call(ctx, network.Enable, network.EnableParams{}); err != nil {
 		t.Fatalf("recording requests: %v", err)
 	}
