@@ -369,16 +369,9 @@ func (ev *evaluator) unit(o int) UnitResult {
 		u.Problem = plainProblem(err, m)
 		return u
 	}
-	// The unit itself is a feasible combination (score 1), so a score past 1
-	// can only be rounding: hold it at 1.
-	if (m.Orientation == Input && p.score > 1) || (m.Orientation == Output && p.score < 1) {
-		p.score = 1
-	}
-	u.Score = scoreOf(m, p.score)
-	if m.Orientation == Output {
-		u.Expansion = p.score
-	}
-	u.Cert = e.certify(p, x0, y0, o, ev.checkSet(e, o, false))
+	checks := ev.checkSet(e, o, false)
+	holdAtOne(m, p)
+	u.Cert = e.certify(p, x0, y0, o, checks)
 	if !u.Cert.Verified {
 		// Rare, on badly scaled data: solve again with the solver's own
 		// scaling and a fresh phase 1, and keep that answer if it checks out.
@@ -388,21 +381,18 @@ func (ev *evaluator) unit(o int) UnitResult {
 		e.careful = false
 		adopted := false
 		if err2 == nil {
-			if (m.Orientation == Input && q.score > 1) || (m.Orientation == Output && q.score < 1) {
-				q.score = 1
-			}
-			if c := e.certify(q, x0, y0, o, ev.checkSet(e, o, false)); c.Verified {
-				adopted = true
-				p, u.Cert = q, c
-				u.Score = scoreOf(m, p.score)
-				if m.Orientation == Output {
-					u.Expansion = p.score
-				}
+			holdAtOne(m, q)
+			if c := e.certify(q, x0, y0, o, checks); c.Verified {
+				p, u.Cert, adopted = q, c, true
 			}
 		}
 		if !adopted {
 			copy(p.lambda, saved)
 		}
+	}
+	u.Score = scoreOf(m, p.score)
+	if m.Orientation == Output {
+		u.Expansion = p.score
 	}
 	ev.fill(&u, e, p, o)
 	if m.ScaleDetail {
@@ -412,6 +402,14 @@ func (ev *evaluator) unit(o int) UnitResult {
 		ev.super(&u, o)
 	}
 	return u
+}
+
+// holdAtOne keeps a unit's own score at 1 or better: the unit itself is a
+// feasible combination (score 1), so a score past 1 can only be rounding.
+func holdAtOne(m Model, p *point) {
+	if (m.Orientation == Input && p.score > 1) || (m.Orientation == Output && p.score < 1) {
+		p.score = 1
+	}
 }
 
 func unitName(d *Data, j int) string {
