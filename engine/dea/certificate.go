@@ -47,15 +47,18 @@ func (e *envelope) certify(p *point, x0, y0 []float64, self int, checkSet []int)
 		sumL += l
 		absL += math.Abs(l)
 	}
+	minL := 0.0
 	for k, j := range e.ref {
-		add(j, p.lambda[k])
+		// Most lambdas of a large reference set are exactly zero.
+		if l := p.lambda[k]; l != 0 {
+			add(j, l)
+			minL = math.Min(minL, l)
+		}
 	}
 	if p.self != 0 && self >= 0 {
 		add(self, p.self)
 	}
-	for k := range e.ref {
-		viol(&cert.PrimalError, -p.lambda[k]/math.Max(1, absL))
-	}
+	viol(&cert.PrimalError, -minL/math.Max(1, absL))
 	viol(&cert.PrimalError, -p.self/math.Max(1, absL))
 	// Each side's rows are also measured against the largest right-hand
 	// side of that side (a normwise relative backward error), so rounding
@@ -130,8 +133,17 @@ func (e *envelope) certify(p *point, x0, y0 []float64, self int, checkSet []int)
 		viol(&cert.DualError, 1-uy0) // phi column: -1 + u.y0 >= 0
 		dualObj = vx0 - wObj
 	}
+	xs, ys := sc.xs, sc.ys
 	for _, j := range checkSet {
-		uy, vx := dot(u, sc.y[j]), dot(v, sc.x[j])
+		xj := xs[j*sc.m : (j+1)*sc.m]
+		yj := ys[j*sc.s : (j+1)*sc.s]
+		uy, vx := 0.0, 0.0
+		for r, a := range yj {
+			uy += a * u[r]
+		}
+		for i, a := range xj {
+			vx += a * v[i]
+		}
 		// Most units sit strictly inside the weights' frontier: only a
 		// positive (or NaN) residual can be a violation.
 		if d := uy - vx + w; !(d <= 0) {

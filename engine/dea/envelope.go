@@ -19,6 +19,7 @@ var ErrNoFiniteScore = errors.New("dea: no finite score exists for this unit aga
 type scaled struct {
 	n, m, s int
 	x, y    [][]float64 // x[unit][input], y[unit][output]
+	xs, ys  []float64   // the same values in one array per side, unit after unit
 	mx, my  []float64   // the divisors (the measures' means, 1 where the mean is 0)
 }
 
@@ -36,6 +37,7 @@ func scaleData(d *Data) *scaled {
 	// memory, which the passes over all units profit from.
 	xs := make([]float64, n*sc.m)
 	ys := make([]float64, n*sc.s)
+	sc.xs, sc.ys = xs, ys
 	for j := 0; j < n; j++ {
 		sc.x[j] = xs[j*sc.m : (j+1)*sc.m : (j+1)*sc.m]
 		sc.y[j] = ys[j*sc.s : (j+1)*sc.s : (j+1)*sc.s]
@@ -141,6 +143,17 @@ type envelope struct {
 	// unit): reused, because a large reference set would otherwise make
 	// every unit allocate a long slice that is read once.
 	lam []float64
+	// Column generation for large reference sets (see restricted): one
+	// restricted program per stage, the columns always in it, and a ring
+	// of lambda columns that were basic in recent solutions, which start
+	// the next point's program.
+	rs, rs2    *restricted
+	init       []int
+	noRestrict bool
+	fixed      []int
+	pool       []int
+	poolNext   int
+	inPool     []bool
 }
 
 func newEnvelope(sc *scaled, ref []int, m Model) *envelope {
@@ -180,7 +193,45 @@ func newEnvelope(sc *scaled, ref []int, m Model) *envelope {
 	}
 	e.prob = lp.Problem{Rows: e.rows, A: a, B: make([]float64, e.rows), C: make([]float64, e.cols)}
 	e.ws, e.ws2, e.dirty = new(lp.Workspace), new(lp.Workspace), -1
+	e.fixed = append(e.fixed, 0, e.extra)
+	for j := e.slack0; j < e.cols; j++ {
+		e.fixed = append(e.fixed, j)
+	}
 	return e
+}
+
+// restrictedMode says whether solve uses column generation.
+func (e *envelope) restrictedMode() bool {
+	return len(e.ref) > restrictAbove && !e.careful && !e.noRestrict
+}
+
+// forget empties the pool.
+func (e *envelope) forget() {
+	for _, j := range e.pool {
+		e.inPool[j] = false
+	}
+	e.pool, e.poolNext = e.pool[:0], 0
+}
+
+// remember puts the basic lambda columns of a solution into the pool.
+func (e *envelope) remember(basis []int) {
+	if e.inPool == nil {
+		e.inPool = make([]bool, e.cols)
+	}
+	K := len(e.ref)
+	for _, j := range basis {
+		if j < 1 || j > K || e.inPool[j] {
+			continue
+		}
+		if len(e.pool) < poolSize {
+			e.pool = append(e.pool, j)
+		} else {
+			e.inPool[e.pool[e.poolNext]] = false
+			e.pool[e.poolNext] = j
+			e.poolNext = (e.poolNext + 1) % poolSize
+		}
+		e.inPool[j] = true
+	}
 }
 
 func (e *envelope) fillLambda(col, x, y []float64) {
@@ -199,6 +250,8 @@ func (e *envelope) clone() *envelope {
 	c.prob.C = make([]float64, e.cols)
 	c.ws, c.ws2, c.prob2, c.dirty = new(lp.Workspace), new(lp.Workspace), lp.Problem{}, -1
 	c.lam = nil
+	c.rs, c.rs2, c.pool, c.poolNext, c.inPool = nil, nil, nil, 0, nil
+	c.init = nil
 	return &c
 }
 
@@ -295,7 +348,30 @@ func (e *envelope) solve(x, y []float64, self int, exclude, second bool) (*point
 	if selfCol >= 0 && !e.careful {
 		opt.Basis = e.selfBasis(x, y, selfCol)
 	}
-	sol, err := e.ws.Solve(&e.prob, &opt)
+	var sol *lp.Solution
+	var err error
+	if e.restrictedMode() {
+		if e.rs == nil {
+			e.rs = new(restricted)
+		}
+		// Start from the unit's own column and the pool: columns that
+		// served the points evaluated just before (points come in an
+		// order that puts similar ones together).
+		init := e.init[:0]
+		if selfCol >= 1 && selfCol <= len(e.ref) {
+			init = append(init, selfCol)
+		}
+		init = append(init, e.pool...)
+		e.init = init
+		sol, err = e.rs.solve(&e.prob, e.fixed, 1, 1+len(e.ref), init, opt.Basis, opt)
+		if err == nil {
+			e.remember(sol.Basis)
+		} else if !errors.Is(err, lp.ErrInfeasible) {
+			sol, err = e.ws.Solve(&e.prob, &opt) // numerical trouble: the whole program
+		}
+	} else {
+		sol, err = e.ws.Solve(&e.prob, &opt)
+	}
 	if err != nil {
 		if errors.Is(err, lp.ErrInfeasible) {
 			return &point{y: append([]float64(nil), sol.Y...)}, fmt.Errorf("%w (%v)", ErrNoFiniteScore, err)
@@ -454,5 +530,18 @@ func (e *envelope) secondStage(first *lp.Solution, hidden int) (*lp.Solution, er
 			break
 		}
 	}
-	return e.ws2.Solve(&e.prob2, &lp.Options{Basis: basis, NoScale: true, Checked: true, NoReducedCosts: true})
+	opt := lp.Options{Basis: basis, NoScale: true, Checked: true, NoReducedCosts: true}
+	if e.restrictedMode() && e.rs != nil {
+		if e.rs2 == nil {
+			e.rs2 = new(restricted)
+		}
+		// Start from the first stage's columns; the new row's slack t is
+		// column e.cols.
+		fixed := append(e.fixed[:len(e.fixed):len(e.fixed)], e.cols)
+		sol, err := e.rs2.solve(&e.prob2, fixed, 1, 1+len(e.ref), e.rs.cols, basis, opt)
+		if err == nil || errors.Is(err, lp.ErrInfeasible) {
+			return sol, err
+		}
+	}
+	return e.ws2.Solve(&e.prob2, &opt)
 }

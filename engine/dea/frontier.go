@@ -2,13 +2,28 @@ package dea
 
 import (
 	"context"
+	"fmt"
 	"math/rand/v2"
+	"runtime"
 	"slices"
+	"sync"
 )
 
 // blockSize is the number of units evaluated together when the candidate set
-// is built; studies no larger than this are solved against all units.
+// is built; studies no larger than twice this are solved against all units.
 const blockSize = 256
+
+// partSize is the largest number of units one part of the candidate search
+// covers. Parts are independent, so they can be searched at the same time
+// (goroutines natively, Web Workers in the page); how units are cut into
+// parts depends on the data alone, never on the number of workers, so the
+// candidate set is the same however many workers find it.
+const partSize = 16384
+
+// localRounds is the number of rounds whose blocks are stretches of similar
+// units (see evalOrder) rather than random draws: similar units are the ones
+// likely to dominate each other, so these rounds thin the set out most.
+const localRounds = 2
 
 // keepAbove is the block score above which a unit stays a candidate. It is
 // deliberately loose: keeping a unit that is in fact inefficient costs a
@@ -36,10 +51,16 @@ const keepAbove = 1 - 1e-6
 //
 // Units dropped together from one block are also safe: the block's
 // technology is spanned by its extreme points, which no convex combination
-// of the block dominates, so they all score 1 and stay. Rounds repeat with
-// freshly shuffled blocks; when a round thins the set out by less than a
-// tenth the blocks grow fourfold, and the last round evaluates every
-// remaining candidate against all of them.
+// of the block dominates, so they all score 1 and stay. The same holds for
+// parts (FrontierParts): each part keeps its own extreme points, and the
+// extreme points of all units are among them; a last check of every
+// remaining candidate against all of them (FrontierCheck, which may be split
+// over workers by the units checked) keeps the union's extreme points.
+//
+// Within a part, rounds repeat: the first ones over stretches of similar
+// units, later ones over freshly shuffled blocks; when a round thins the set
+// out by less than a tenth the blocks grow fourfold, and the part's last
+// round evaluates every remaining candidate against all of them.
 //
 // Screening needs only to know whether a score is below 1, so each program
 // stops as soon as a combination proves it is (lp.Options.Cutoff).
@@ -48,52 +69,227 @@ const keepAbove = 1 - 1e-6
 // break this argument for units of C, so it is solved with column generation
 // over all units instead (see Run).
 func Frontier(ctx context.Context, d *Data) ([]int, error) {
-	sc := scaleData(d)
-	return frontier(ctx, sc)
+	return frontier(ctx, scaleData(d), runtime.GOMAXPROCS(0))
 }
 
-func frontier(ctx context.Context, sc *scaled) ([]int, error) {
+// FrontierParts cuts the units of d into the parts the candidate search
+// works on: stretches of an order that puts similar units together.
+func FrontierParts(d *Data) [][]int {
+	return parts(scaleData(d))
+}
+
+// FrontierPart returns the candidates of one part of FrontierParts: the
+// units of part that no convex combination of units of part dominates, and
+// possibly a few more.
+func FrontierPart(ctx context.Context, d *Data, part []int) ([]int, error) {
+	sc := scaleData(d)
+	if err := checkIndices(sc, part); err != nil {
+		return nil, err
+	}
+	return searchPart(ctx, sc, part)
+}
+
+// FrontierCheck returns the units of check that stay candidates when
+// evaluated against all of pool (check is a subset of pool; pool is the
+// union of the parts' candidates). Splitting pool into several checks and
+// joining the answers gives the same set as one check of all of pool.
+func FrontierCheck(ctx context.Context, d *Data, pool, check []int) ([]int, error) {
+	sc := scaleData(d)
+	if err := checkIndices(sc, pool); err != nil {
+		return nil, err
+	}
+	if err := checkIndices(sc, check); err != nil {
+		return nil, err
+	}
+	return screen(ctx, sc, pool, check)
+}
+
+func checkIndices(sc *scaled, units []int) error {
+	for _, j := range units {
+		if j < 0 || j >= sc.n {
+			return fmt.Errorf("dea: unit index %d out of range", j)
+		}
+	}
+	return nil
+}
+
+// frontierModel is the model of every screening program.
+var frontierModel = Model{Returns: Variable, Orientation: Input}
+
+func parts(sc *scaled) [][]int {
 	all := make([]int, sc.n)
 	for j := range all {
 		all[j] = j
 	}
 	if sc.n <= 2*blockSize {
-		return all, nil
+		return [][]int{all}
 	}
-	m := Model{Returns: Variable, Orientation: Input}
-	rng := rand.New(rand.NewPCG(uint64(sc.n), 0x9e3779b97f4a7c15))
-	cand := all
-	for size := blockSize; ; {
-		rng.Shuffle(len(cand), func(a, b int) { cand[a], cand[b] = cand[b], cand[a] })
-		nb := (len(cand) + size - 1) / size
-		if len(cand) <= 2*size {
-			nb = 1 // the last round: every candidate against all of them
+	order := evalOrder(sc, frontierModel, all)
+	for k, q := range order {
+		order[k] = all[q]
+	}
+	np := (sc.n + partSize - 1) / partSize
+	out := make([][]int, np)
+	for p := range out {
+		lo, hi := p*sc.n/np, (p+1)*sc.n/np
+		out[p] = order[lo:hi:hi]
+	}
+	return out
+}
+
+// frontier runs the whole search with up to workers goroutines.
+func frontier(ctx context.Context, sc *scaled, workers int) ([]int, error) {
+	ps := parts(sc)
+	found := make([][]int, len(ps))
+	if err := parallel(ctx, len(ps), workers, func(p int) error {
+		var err error
+		found[p], err = searchPart(ctx, sc, ps[p])
+		return err
+	}); err != nil {
+		return nil, err
+	}
+	var pool []int
+	for _, f := range found {
+		pool = append(pool, f...)
+	}
+	slices.Sort(pool)
+	if len(ps) == 1 {
+		return pool, nil
+	}
+	// The last check, split into pieces over the workers.
+	pieces := max(1, min(workers, len(pool)/blockSize))
+	kept := make([][]int, pieces)
+	if err := parallel(ctx, pieces, workers, func(k int) error {
+		lo, hi := k*len(pool)/pieces, (k+1)*len(pool)/pieces
+		var err error
+		kept[k], err = screen(ctx, sc, pool, pool[lo:hi])
+		return err
+	}); err != nil {
+		return nil, err
+	}
+	var out []int
+	for _, k := range kept {
+		out = append(out, k...)
+	}
+	return out, nil
+}
+
+// parallel runs f(0..n-1) on up to workers goroutines and returns the first
+// error.
+func parallel(ctx context.Context, n, workers int, f func(int) error) error {
+	var (
+		mu       sync.Mutex
+		next     int
+		firstErr error
+		wg       sync.WaitGroup
+	)
+	work := func() {
+		defer wg.Done()
+		for {
+			mu.Lock()
+			k := next
+			next++
+			stop := firstErr != nil
+			mu.Unlock()
+			if k >= n || stop {
+				return
+			}
+			if err := f(k); err != nil {
+				mu.Lock()
+				if firstErr == nil {
+					firstErr = err
+				}
+				mu.Unlock()
+				return
+			}
 		}
-		var next []int
-		for b := 0; b < nb; b++ {
-			if err := ctx.Err(); err != nil {
+	}
+	workers = max(1, min(workers, n))
+	wg.Add(workers)
+	for w := 1; w < workers; w++ {
+		go work()
+	}
+	work()
+	wg.Wait()
+	if firstErr == nil {
+		firstErr = ctx.Err()
+	}
+	return firstErr
+}
+
+// searchPart runs the rounds of the search over one part (given in the
+// order of evalOrder) and returns its candidates in increasing order.
+func searchPart(ctx context.Context, sc *scaled, part []int) ([]int, error) {
+	cand := append([]int(nil), part...)
+	if len(cand) <= 2*blockSize {
+		slices.Sort(cand)
+		return cand, nil
+	}
+	seed := uint64(len(part))<<32 ^ uint64(part[0])
+	rng := rand.New(rand.NewPCG(seed, 0x9e3779b97f4a7c15))
+	for size, round := blockSize, 0; ; round++ {
+		switch {
+		case round >= localRounds:
+			rng.Shuffle(len(cand), func(a, b int) { cand[a], cand[b] = cand[b], cand[a] })
+		case round > 0:
+			// Similar units again, among the survivors.
+			ord := evalOrder(sc, frontierModel, cand)
+			next := make([]int, len(cand))
+			for k, q := range ord {
+				next[k] = cand[q]
+			}
+			cand = next
+		}
+		if len(cand) <= 2*size {
+			// The last round: every candidate against all of them, in a
+			// shuffled column order (partial pricing works best when the
+			// columns it scans first are varied).
+			if round < localRounds {
+				rng.Shuffle(len(cand), func(a, b int) { cand[a], cand[b] = cand[b], cand[a] })
+			}
+			next, err := screen(ctx, sc, cand, cand)
+			if err != nil {
 				return nil, err
 			}
+			slices.Sort(next)
+			return next, nil
+		}
+		nb := (len(cand) + size - 1) / size
+		var next []int
+		for b := 0; b < nb; b++ {
 			lo, hi := b*len(cand)/nb, (b+1)*len(cand)/nb
 			block := append([]int(nil), cand[lo:hi]...)
-			env := newEnvelope(sc, block, m)
-			env.cutoff = keepAbove
-			for _, j := range block {
-				p, err := env.solve(sc.x[j], sc.y[j], j, false, false)
-				if err != nil || p.score > keepAbove {
-					next = append(next, j) // keep on any doubt
-				}
+			kept, err := screen(ctx, sc, block, block)
+			if err != nil {
+				return nil, err
 			}
+			next = append(next, kept...)
 		}
 		shrunk := len(cand) - len(next)
 		cand = next
-		if nb == 1 {
-			break
-		}
 		if shrunk*10 < len(cand) {
 			size *= 4 // blocks of this size no longer thin the set out
 		}
 	}
-	slices.Sort(cand)
-	return cand, nil
+}
+
+// screen evaluates the units of check against the units of ref and returns
+// those whose score is not proven below 1, in the order of check.
+func screen(ctx context.Context, sc *scaled, ref, check []int) ([]int, error) {
+	env := newEnvelope(sc, ref, frontierModel)
+	env.cutoff = keepAbove
+	env.noRestrict = true // screening programs end early: plain pricing is faster
+	var kept []int
+	for k, j := range check {
+		if k%64 == 0 {
+			if err := ctx.Err(); err != nil {
+				return nil, err
+			}
+		}
+		p, err := env.solve(sc.x[j], sc.y[j], j, false, false)
+		if err != nil || p.score > keepAbove {
+			kept = append(kept, j) // keep on any doubt
+		}
+	}
+	return kept, nil
 }

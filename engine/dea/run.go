@@ -27,6 +27,13 @@ type Options struct {
 	// Frontier, when not nil, is a candidate set computed earlier by
 	// Frontier for the same data; it saves each worker from computing it.
 	Frontier []int
+	// Parts, when above 1, splits a run over several workers: this run
+	// evaluates only the units of every Parts-th chunk, starting with chunk
+	// Part, and Result.Units holds them in unit order. Units are cut into
+	// chunks by the data alone, and each chunk is evaluated the same way
+	// wherever it runs, so results put together with Merge are identical,
+	// bit for bit, to one run's. Parts cannot be combined with Units.
+	Part, Parts int
 	// Progress is called now and then with the number of units done.
 	Progress func(done, total int)
 	// Workers is the number of goroutines (0: GOMAXPROCS).
@@ -153,39 +160,42 @@ func RunWith(ctx context.Context, d *Data, m Model, opt Options) (*Result, error
 		return nil, err
 	}
 	sc := scaleData(d)
-	cand := opt.Frontier
-	if cand == nil {
-		var err error
-		if cand, err = frontier(ctx, sc); err != nil {
-			return nil, err
-		}
-	}
-	units := opt.Units
-	if units == nil {
-		units = make([]int, sc.n)
-		for j := range units {
-			units[j] = j
-		}
-	}
-	for _, j := range units {
-		if j < 0 || j >= sc.n {
-			return nil, fmt.Errorf("dea: unit index %d out of range", j)
-		}
-	}
-	ev := newEvaluator(sc, d, m, cand)
-	res := &Result{Model: m, Units: make([]UnitResult, len(units)), Frontier: cand}
 	workers := opt.Workers
 	if workers <= 0 {
 		workers = runtime.GOMAXPROCS(0)
 	}
-	workers = min(workers, max(1, len(units)/16))
+	cand := opt.Frontier
+	if cand == nil {
+		var err error
+		if cand, err = frontier(ctx, sc, workers); err != nil {
+			return nil, err
+		}
+	}
+	if opt.Parts > 1 && (opt.Units != nil || opt.Part < 0 || opt.Part >= opt.Parts) {
+		return nil, fmt.Errorf("dea: part %d of %d (with a list of units: %v) is not a valid share of a run", opt.Part, opt.Parts, opt.Units != nil)
+	}
+	listed := make(map[int]bool, len(opt.Units))
+	for _, j := range opt.Units {
+		if j < 0 || j >= sc.n {
+			return nil, fmt.Errorf("dea: unit index %d out of range", j)
+		}
+		if listed[j] {
+			return nil, fmt.Errorf("dea: unit index %d is listed twice", j)
+		}
+		listed[j] = true
+	}
+	plan := planRun(sc, m, opt)
+	ev := newEvaluator(sc, d, m, cand)
+	res := &Result{Model: m, Units: make([]UnitResult, plan.count), Frontier: cand}
+	workers = min(workers, max(1, plan.count/16), len(plan.chunks))
 	var (
 		mu   sync.Mutex
 		done int
 		next int
 		wg   sync.WaitGroup
 	)
-	step := max(1, len(units)/200)
+	total := plan.count
+	step := max(1, total/200)
 	report := func(k int) {
 		if opt.Progress == nil {
 			return
@@ -194,35 +204,39 @@ func RunWith(ctx context.Context, d *Data, m Model, opt Options) (*Result, error
 		done += k
 		dn := done
 		mu.Unlock()
-		if dn%step < k || dn == len(units) {
-			opt.Progress(dn, len(units))
+		if dn%step < k || dn == total {
+			opt.Progress(dn, total)
 		}
 	}
-	take := func() (int, int) {
+	take := func() int {
 		mu.Lock()
 		defer mu.Unlock()
-		lo := next
-		next = min(next+8, len(units))
-		return lo, next
+		c := next
+		next++
+		return c
 	}
 	var firstErr error
 	work := func(ev *evaluator) {
 		defer wg.Done()
 		for {
-			lo, hi := take()
-			if lo >= hi {
+			c := take()
+			if c >= len(plan.chunks) {
 				return
 			}
-			for k := lo; k < hi; k++ {
+			// Every chunk starts afresh, so its results do not depend on
+			// which worker evaluated which chunk before.
+			ev.reset()
+			ch := plan.chunks[c]
+			for _, t := range ch {
 				if err := ctx.Err(); err != nil {
 					mu.Lock()
 					firstErr = err
 					mu.Unlock()
 					return
 				}
-				res.Units[k] = ev.unit(units[k])
+				res.Units[t.slot] = ev.unit(t.unit)
 			}
-			report(hi - lo)
+			report(len(ch))
 		}
 	}
 	wg.Add(workers)
@@ -297,6 +311,15 @@ func newEvaluator(sc *scaled, d *Data, m Model, cand []int) *evaluator {
 	return ev
 }
 
+// reset forgets the warm starts of the units evaluated so far.
+func (ev *evaluator) reset() {
+	for _, e := range [...]*envelope{ev.main, ev.crs, ev.vrs, ev.nirs} {
+		if e != nil {
+			e.forget()
+		}
+	}
+}
+
 func (ev *evaluator) clone() *evaluator {
 	c := *ev
 	c.checkBuf = nil
@@ -333,10 +356,11 @@ func (ev *evaluator) checkSet(e *envelope, self int, exclude bool) []int {
 
 // radialScore reports a unit's score (theta, or 1/phi) under envelope e.
 func (ev *evaluator) radialScore(e *envelope, o int) (float64, error) {
-	p, err := e.solve(ev.sc.x[o], ev.sc.y[o], o, false, false)
+	p, err := e.solveOrRetry(ev.sc.x[o], ev.sc.y[o], o, false)
 	if err != nil {
 		return math.NaN(), err
 	}
+	holdAtOne(e.model, p)
 	return scoreOf(e.model, p.score), nil
 }
 
@@ -353,7 +377,7 @@ func (ev *evaluator) unit(o int) UnitResult {
 	u := UnitResult{Index: o, Name: unitName(d, o), Peers: []Peer{}}
 	e := ev.main
 	x0, y0 := sc.x[o], sc.y[o]
-	p, err := e.solve(x0, y0, o, false, m.SecondStage)
+	p, err := e.solveOrRetry(x0, y0, o, m.SecondStage)
 	if err == nil && p.self > lambdaTol {
 		if _, in := e.inRef[o]; !in {
 			// The unit is not a candidate, so it is dominated by candidates and
@@ -402,6 +426,18 @@ func (ev *evaluator) unit(o int) UnitResult {
 		ev.super(&u, o)
 	}
 	return u
+}
+
+// solveOrRetry solves a unit's program; when the solver runs into numerical
+// trouble it tries once more with its own scaling and a fresh phase 1.
+func (e *envelope) solveOrRetry(x, y []float64, o int, second bool) (*point, error) {
+	p, err := e.solve(x, y, o, false, second)
+	if err != nil && !errors.Is(err, ErrNoFiniteScore) {
+		e.careful = true
+		p, err = e.solve(x, y, o, false, second)
+		e.careful = false
+	}
+	return p, err
 }
 
 // holdAtOne keeps a unit's own score at 1 or better: the unit itself is a

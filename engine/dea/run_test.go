@@ -105,22 +105,19 @@ func benchRun(b *testing.B, n int) {
 func BenchmarkVRSInput1000(b *testing.B)  { benchRun(b, 1000) }
 func BenchmarkVRSInput10000(b *testing.B) { benchRun(b, 10000) }
 
-// Runs over parts of the units, merged, give the same result as one run.
+// Runs over parts of the units, merged, give the same result as one run,
+// bit for bit, and so does a run on more goroutines.
 func TestMergeEqualsOneRun(t *testing.T) {
-	d := cobbDouglas(300, 2, 2, 3)
+	d := cobbDouglas(700, 2, 2, 3) // several chunks
 	m := DefaultModel()
 	ctx := context.Background()
-	whole, err := Run(ctx, d, m, nil)
+	whole, err := RunWith(ctx, d, m, Options{Workers: 1})
 	if err != nil {
 		t.Fatal(err)
 	}
 	var parts []*Result
 	for w := 0; w < 3; w++ {
-		var units []int
-		for j := w; j < 300; j += 3 {
-			units = append(units, j)
-		}
-		r, err := RunWith(ctx, d, m, Options{Units: units, Frontier: whole.Frontier})
+		r, err := RunWith(ctx, d, m, Options{Part: w, Parts: 3, Frontier: whole.Frontier})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -130,13 +127,41 @@ func TestMergeEqualsOneRun(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	for k, u := range merged.Units {
-		w := whole.Units[k]
-		if u.Index != w.Index || u.Score != w.Score || u.PeerCount != w.PeerCount {
-			t.Errorf("unit %d: merged %d %v %d, whole %d %v %d", k, u.Index, u.Score, u.PeerCount, w.Index, w.Score, w.PeerCount)
+	two, err := RunWith(ctx, d, m, Options{Workers: 2})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, other := range []*Result{merged, two} {
+		if len(other.Units) != len(whole.Units) {
+			t.Fatalf("%d units, want %d", len(other.Units), len(whole.Units))
+		}
+		for k, u := range other.Units {
+			w := whole.Units[k]
+			if u.Index != w.Index || u.Score != w.Score || u.PeerCount != w.PeerCount || len(u.Peers) != len(w.Peers) {
+				t.Errorf("unit %d: %d %v %d, whole %d %v %d", k, u.Index, u.Score, u.PeerCount, w.Index, w.Score, w.PeerCount)
+			}
 		}
 	}
 	if _, err := Merge(parts[0], parts[0]); err == nil {
 		t.Error("merging a part twice should fail")
+	}
+	// Any list of units gives the same scores, to rounding.
+	var units []int
+	for j := 1; j < 700; j += 3 {
+		units = append(units, j)
+	}
+	some, err := RunWith(ctx, d, m, Options{Units: units, Frontier: whole.Frontier})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for k, u := range some.Units {
+		if w := whole.Units[units[k]]; u.Index != w.Index || math.Abs(u.Score-w.Score) > 1e-12 {
+			t.Errorf("listed unit %d: %d %v, whole %d %v", k, u.Index, u.Score, w.Index, w.Score)
+		}
+	}
+	for _, bad := range []Options{{Units: []int{1, 2, 1}}, {Part: 3, Parts: 3}, {Part: 0, Parts: 2, Units: []int{1}}} {
+		if _, err := RunWith(ctx, d, m, bad); err == nil {
+			t.Errorf("options %+v should be refused", bad)
+		}
 	}
 }

@@ -1,0 +1,212 @@
+package dea
+
+import (
+	"errors"
+
+	"peerlens/engine/lp"
+)
+
+// restrictAbove is the reference-set size above which an envelopment program
+// is solved by column generation (restricted.solve) instead of over all its
+// columns at once. It is a variable so that tests can send small programs
+// down the same path.
+var restrictAbove = 128
+
+// poolSize is the number of recently useful lambda columns an envelope keeps
+// to start the next point's restricted program with.
+const poolSize = 48
+
+// priceTol is the reduced cost below which a column joins the restricted
+// program: the solver's own optimality tolerance on unscaled programs.
+const priceTol = 1e-9
+
+// restricted solves a program over a working subset of its lambda columns
+// and adds columns by pricing until none prices out (column generation, as
+// for DEA with large data sets in Chen & Lai 2017, Annals of Operations
+// Research 250: few small programs plus one pass over all columns each).
+//
+// Why it gives the full program's answer: when the restricted program is
+// optimal with duals y and no column of the full program has a negative
+// reduced cost c_j - y'a_j, then y is dual feasible for the full program and
+// its objective equals the restricted optimum, which is primal feasible for
+// the full program (the left-out columns at zero): both are optimal. When the
+// restricted program is infeasible with Farkas certificate y and no column
+// breaks the certificate (y'a_j > 0), the full program is infeasible too.
+// A restricted program stopped at a cutoff has a feasible point below the
+// cutoff, which the full program has as well. Columns are only ever added,
+// so the process ends, at worst with every column in.
+type restricted struct {
+	prob  lp.Problem
+	ws    lp.Workspace
+	cols  []int   // the full column behind each restricted column
+	at    []int32 // per full column: its restricted position + 1 (0: absent)
+	x     []float64
+	basis []int
+	rb    []int
+	y     []float64
+	// The most negative reduced costs of a pricing pass.
+	bestD []float64
+	bestJ []int
+	// passes counts pricing passes over all columns (for tests and tuning).
+	passes int
+}
+
+// solve solves full by column generation. The columns in fixed are always
+// in; lambda columns lo..hi-1 are priced; init are lambda columns to start
+// with; basis (full column indices, or nil) is a feasible starting basis made
+// of columns in fixed and init. The Solution is in full column indices and
+// belongs to rs until the next solve.
+func (rs *restricted) solve(full *lp.Problem, fixed []int, lo, hi int, init, basis []int, opt lp.Options) (*lp.Solution, error) {
+	R, N := full.Rows, full.Cols()
+	if len(rs.at) != N {
+		rs.at = make([]int32, N)
+	} else {
+		for _, j := range rs.cols {
+			rs.at[j] = 0
+		}
+	}
+	rs.cols = rs.cols[:0]
+	rs.prob = lp.Problem{Rows: R, A: rs.prob.A[:0], B: full.B, C: rs.prob.C[:0]}
+	for _, j := range fixed {
+		rs.add(full, j)
+	}
+	for _, j := range init {
+		rs.add(full, j)
+	}
+	rs.rb = rs.mapBasis(basis)
+	iters, phase1 := 0, false
+	for {
+		o := opt
+		o.Basis = rs.rb
+		sol, err := rs.ws.Solve(&rs.prob, &o)
+		if sol != nil {
+			iters += sol.Iter
+			phase1 = phase1 || sol.Phase1
+		}
+		infeasible := errors.Is(err, lp.ErrInfeasible)
+		if err != nil && !infeasible {
+			return nil, err
+		}
+		if err == nil && sol.Stopped {
+			return rs.result(sol, iters, phase1), nil
+		}
+		rs.passes++
+		if rs.price(full, lo, hi, sol.Y) == 0 {
+			if infeasible {
+				rs.y = append(rs.y[:0], sol.Y...)
+				return &lp.Solution{Y: rs.y, Iter: iters, Phase1: phase1}, err
+			}
+			return rs.result(sol, iters, phase1), nil
+		}
+		rs.rb = rs.rb[:0]
+		if !infeasible {
+			for _, k := range sol.Basis {
+				if k < 0 {
+					rs.rb = rs.rb[:0]
+					break
+				}
+				rs.rb = append(rs.rb, k) // new columns went to the end: positions hold
+			}
+		}
+		if len(rs.rb) != R {
+			rs.rb = nil
+		}
+	}
+}
+
+func (rs *restricted) add(full *lp.Problem, j int) {
+	if rs.at[j] != 0 {
+		return
+	}
+	rs.cols = append(rs.cols, j)
+	rs.at[j] = int32(len(rs.cols))
+	rs.prob.A = append(rs.prob.A, full.A[j*full.Rows:(j+1)*full.Rows]...)
+	rs.prob.C = append(rs.prob.C, full.C[j])
+}
+
+func (rs *restricted) mapBasis(basis []int) []int {
+	if len(basis) == 0 {
+		return nil
+	}
+	out := rs.rb[:0]
+	for _, j := range basis {
+		if j < 0 || j >= len(rs.at) || rs.at[j] == 0 {
+			return nil
+		}
+		out = append(out, int(rs.at[j])-1)
+	}
+	return out
+}
+
+// price adds the lambda columns lo..hi-1 of full with the most negative
+// reduced costs under y (at most a few per pass) and reports how many.
+func (rs *restricted) price(full *lp.Problem, lo, hi int, y []float64) int {
+	R := full.Rows
+	k := max(8, 2*R)
+	rs.bestD, rs.bestJ = rs.bestD[:0], rs.bestJ[:0]
+	worst, worstAt := -priceTol, -1
+	yy := y[:R]
+	cs := full.C[lo:hi]
+	cols := full.A[lo*R : hi*R]
+	at := rs.at[lo:hi]
+	at = at[:len(cs)]
+	for c := range cs {
+		col := cols[:len(yy)]
+		cols = cols[len(yy):]
+		t := 0.0
+		for i, v := range col {
+			t += v * yy[i]
+		}
+		d := cs[c] - t
+		if !(d < worst) || at[c] != 0 {
+			continue
+		}
+		if len(rs.bestD) < k {
+			rs.bestD = append(rs.bestD, d)
+			rs.bestJ = append(rs.bestJ, lo+c)
+			if len(rs.bestD) < k {
+				continue
+			}
+		} else {
+			rs.bestD[worstAt], rs.bestJ[worstAt] = d, lo+c
+		}
+		// The list is full: the bar is now its least negative entry.
+		worst, worstAt = rs.bestD[0], 0
+		for q, v := range rs.bestD {
+			if v > worst {
+				worst, worstAt = v, q
+			}
+		}
+	}
+	for _, j := range rs.bestJ {
+		rs.add(full, j)
+	}
+	return len(rs.bestJ)
+}
+
+// result turns a restricted solution into one over the full columns.
+func (rs *restricted) result(sol *lp.Solution, iters int, phase1 bool) *lp.Solution {
+	N := len(rs.at)
+	rs.x = grow(rs.x, N)
+	clear(rs.x)
+	for k, j := range rs.cols {
+		rs.x[j] = sol.X[k]
+	}
+	rs.basis = rs.basis[:0]
+	for _, k := range sol.Basis {
+		if k < 0 {
+			rs.basis = append(rs.basis, -1)
+		} else {
+			rs.basis = append(rs.basis, rs.cols[k])
+		}
+	}
+	rs.y = append(rs.y[:0], sol.Y...)
+	return &lp.Solution{X: rs.x, Y: rs.y, Obj: sol.Obj, Basis: rs.basis, Iter: iters, Phase1: phase1, Stopped: sol.Stopped}
+}
+
+func grow(v []float64, n int) []float64 {
+	if cap(v) >= n {
+		return v[:n]
+	}
+	return make([]float64, n)
+}
