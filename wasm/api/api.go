@@ -2,7 +2,6 @@ package api
 
 import (
 	"bytes"
-	"context"
 	"encoding/json"
 	"errors"
 	"fmt"
@@ -176,88 +175,6 @@ func issues(is []study.Issue) []Issue {
 		out[i] = Issue{Severity: string(x.Severity), Code: x.Code, Message: x.Message, Units: nonNil(x.Units), Measures: nonNil(x.Measures)}
 	}
 	return out
-}
-
-// Run runs a study's model on its included units and returns the result.
-// units, when not nil, restricts the run to those units (indices into the
-// included units), each still compared with all of them; progress is
-// called now and then with the units done.
-func Run(ctx context.Context, studyJSON []byte, units []int, progress func(done, total int)) ([]byte, error) {
-	return RunPart(ctx, studyJSON, units, nil, progress)
-}
-
-// RunPart is Run for one share of a run split over several workers:
-// frontier, when not nil, is the candidate set Frontier returned for the
-// same study, so that no worker computes it again. Its indices must lie
-// among the included units, each once.
-func RunPart(ctx context.Context, studyJSON []byte, units, frontier []int, progress func(done, total int)) ([]byte, error) {
-	s, d, err := studyData(studyJSON)
-	if err != nil {
-		return nil, err
-	}
-	if frontier != nil {
-		if err := checkFrontier(frontier, len(d.X)); err != nil {
-			return nil, err
-		}
-	}
-	r, err := dea.RunWith(ctx, &d, s.Settings, dea.Options{Units: units, Frontier: frontier, Progress: progress})
-	if err != nil {
-		return nil, err
-	}
-	return export.JSON(r)
-}
-
-// studyData reads a study and the data of its included units.
-func studyData(studyJSON []byte) (*study.Study, dea.Data, error) {
-	s, err := ReadStudy(studyJSON)
-	if err != nil {
-		return nil, dea.Data{}, err
-	}
-	d, _, err := s.Data()
-	return s, d, err
-}
-
-// checkFrontier rejects a candidate set that cannot belong to a study of
-// n included units.
-func checkFrontier(frontier []int, n int) error {
-	if len(frontier) == 0 {
-		return errors.New("the frontier handed to the run is empty; it must come from the same study")
-	}
-	seen := make([]bool, n)
-	for _, j := range frontier {
-		if j < 0 || j >= n {
-			return fmt.Errorf("the frontier handed to the run names unit %d, but the study has %d included units; it must come from the same study", j, n)
-		}
-		if seen[j] {
-			return fmt.Errorf("the frontier handed to the run names unit %d twice", j)
-		}
-		seen[j] = true
-	}
-	return nil
-}
-
-// FrontierSet is what Frontier returns: the candidate set (indices into
-// the included units) and how many units are included.
-type FrontierSet struct {
-	Frontier []int `json:"frontier"`
-	Units    int   `json:"units"`
-}
-
-// Frontier finds the candidate set of a study's included units
-// (dea.Frontier), so that a run split over several workers computes it once.
-func Frontier(ctx context.Context, studyJSON []byte) ([]byte, error) {
-	_, d, err := studyData(studyJSON)
-	if err != nil {
-		return nil, err
-	}
-	if err := dea.CheckData(&d); err != nil {
-		return nil, err
-	}
-	f, err := dea.Frontier(ctx, &d)
-	if err != nil {
-		return nil, err
-	}
-	return export.JSON(FrontierSet{Frontier: nonNil(f), Units: len(d.X)})
 }
 
 // ReadResult reads a result in the form Run writes, putting back the
