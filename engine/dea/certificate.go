@@ -1,6 +1,10 @@
 package dea
 
-import "math"
+import (
+	"math"
+
+	"peerlens/engine/internal/kernel"
+)
 
 // certTolerance bounds every violation of a verified certificate: each
 // residual is measured relative to the size of the terms it is made of.
@@ -17,11 +21,11 @@ const fullCheckLimit = 2000
 // the multiplier program from the dual values (the weights must not put any
 // unit of checkSet beyond the frontier), and the gap between the primal score
 // and the dual objective.
-func (e *envelope) certify(p *point, x0, y0 []float64, self int, checkSet []int) Certificate {
+func (e *envelope) certify(p *point, x0, y0 []float64, self int, cs checks) Certificate {
 	sc := e.sc
 	ms := sc.m + sc.s
 	input := e.model.Orientation == Input
-	cert := Certificate{Tolerance: certTolerance, Checked: len(checkSet)}
+	cert := Certificate{Tolerance: certTolerance, Checked: cs.count(e)}
 	viol := func(dst *float64, v float64) {
 		if v > *dst || math.IsNaN(v) {
 			*dst = v
@@ -134,7 +138,7 @@ func (e *envelope) certify(p *point, x0, y0 []float64, self int, checkSet []int)
 		dualObj = vx0 - wObj
 	}
 	xs, ys := sc.xs, sc.ys
-	for _, j := range checkSet {
+	check := func(j int) {
 		xj := xs[j*sc.m : (j+1)*sc.m]
 		yj := ys[j*sc.s : (j+1)*sc.s]
 		uy, vx := 0.0, 0.0
@@ -153,9 +157,41 @@ func (e *envelope) certify(p *point, x0, y0 []float64, self int, checkSet []int)
 			viol(&cert.DualError, relative(d, math.Abs(uy)+math.Abs(vx)+math.Abs(w)+1e-6, false))
 		}
 	}
+	if cs.ref {
+		// The reference units' lambda columns of the program are the
+		// data (x_j, y_j, a 1 per returns row), one after the other, so
+		// u.y_j - v.x_j + w for all of them is one pass of dot products
+		// with the duals; the few that come out positive are measured as
+		// above.
+		K := len(e.ref)
+		e.dots = grow(e.dots, K)
+		kernel.Dots(e.dots, e.prob.A[e.rows:(1+K)*e.rows], y[:e.rows])
+		for k, d := range e.dots {
+			if !(d <= 0) {
+				check(e.ref[k])
+			}
+		}
+	}
+	for _, j := range cs.units {
+		check(j)
+	}
 	cert.Gap = relative(p.score-dualObj, math.Abs(p.score)+math.Abs(dualObj), true)
 	cert.Verified = cert.PrimalError <= certTolerance && cert.DualError <= certTolerance && cert.Gap <= certTolerance
 	return cert
+}
+
+// checks is the set of units the dual check of a certificate covers: every
+// reference unit of the envelope when ref is set, and units.
+type checks struct {
+	ref   bool
+	units []int
+}
+
+func (c checks) count(e *envelope) int {
+	if c.ref {
+		return len(e.ref) + len(c.units)
+	}
+	return len(c.units)
 }
 
 // certifyInfeasible checks a Farkas certificate y (y'a_j <= 0 for every
@@ -242,7 +278,7 @@ func dot(a, b []float64) float64 {
 // an upper bound on phi, zero within the tolerance. It makes no primal
 // claim, so PrimalError is left at zero.
 func (e *envelope) certifyNoExpansion(p *point, x0, y0 []float64, checkSet []int) Certificate {
-	c := e.certify(p, x0, y0, -1, checkSet)
+	c := e.certify(p, x0, y0, -1, checks{units: checkSet})
 	sc := e.sc
 	bound := -dot(p.y[:sc.m], x0) // v.x0
 	for q, r := range e.rr {

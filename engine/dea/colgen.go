@@ -3,6 +3,7 @@ package dea
 import (
 	"errors"
 
+	"peerlens/engine/internal/kernel"
 	"peerlens/engine/lp"
 )
 
@@ -47,6 +48,7 @@ type restricted struct {
 	// The most negative reduced costs of a pricing pass.
 	bestD []float64
 	bestJ []int
+	dots  []float64 // pricing's buffer
 	// passes counts pricing passes over all columns (for tests and tuning).
 	passes int
 }
@@ -145,18 +147,13 @@ func (rs *restricted) price(full *lp.Problem, lo, hi int, y []float64) int {
 	k := max(8, 2*R)
 	rs.bestD, rs.bestJ = rs.bestD[:0], rs.bestJ[:0]
 	worst, worstAt := -priceTol, -1
-	yy := y[:R]
 	cs := full.C[lo:hi]
-	cols := full.A[lo*R : hi*R]
 	at := rs.at[lo:hi]
 	at = at[:len(cs)]
-	for c := range cs {
-		col := cols[:len(yy)]
-		cols = cols[len(yy):]
-		t := 0.0
-		for i, v := range col {
-			t += v * yy[i]
-		}
+	rs.dots = grow(rs.dots, len(cs))
+	dots := rs.dots[:len(cs)]
+	kernel.Dots(dots, full.A[lo*R:hi*R], y[:R])
+	for c, t := range dots {
 		d := cs[c] - t
 		if !(d < worst) || at[c] != 0 {
 			continue

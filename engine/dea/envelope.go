@@ -143,6 +143,8 @@ type envelope struct {
 	// unit): reused, because a large reference set would otherwise make
 	// every unit allocate a long slice that is read once.
 	lam []float64
+	// dots is the buffer of certify's pass over the reference units.
+	dots []float64
 	// Column generation for large reference sets (see restricted): one
 	// restricted program per stage, the columns always in it, and a ring
 	// of lambda columns that were basic in recent solutions, which start
@@ -249,7 +251,7 @@ func (e *envelope) clone() *envelope {
 	c.prob.B = make([]float64, e.rows)
 	c.prob.C = make([]float64, e.cols)
 	c.ws, c.ws2, c.prob2, c.dirty = new(lp.Workspace), new(lp.Workspace), lp.Problem{}, -1
-	c.lam = nil
+	c.lam, c.dots = nil, nil
 	c.rs, c.rs2, c.pool, c.poolNext, c.inPool = nil, nil, nil, 0, nil
 	c.init = nil
 	return &c

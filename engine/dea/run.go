@@ -330,28 +330,19 @@ func (ev *evaluator) clone() *evaluator {
 	return &c
 }
 
-// checkSet is the set of units a certificate's dual check covers.
-func (ev *evaluator) checkSet(e *envelope, self int, exclude bool) []int {
-	base := e.ref
+// checkSet is the set of units a certificate's dual check covers: every
+// unit on small studies; otherwise the reference set (enough, by the
+// argument in Frontier's doc comment) and the unit itself when it is not
+// in it.
+func (ev *evaluator) checkSet(e *envelope, self int) checks {
 	if ev.all != nil {
-		base = ev.all
+		return checks{units: ev.all}
 	}
-	if !exclude && (self < 0 || ev.all != nil) {
-		return base
+	if _, in := e.inRef[self]; in || self < 0 {
+		return checks{ref: true}
 	}
-	out := ev.checkBuf[:0] // reused: the certificate does not keep it
-	for _, j := range base {
-		if !(exclude && j == self) {
-			out = append(out, j)
-		}
-	}
-	if !exclude && self >= 0 {
-		if _, in := e.inRef[self]; !in {
-			out = append(out, self)
-		}
-	}
-	ev.checkBuf = out
-	return out
+	ev.checkBuf = append(ev.checkBuf[:0], self)
+	return checks{ref: true, units: ev.checkBuf}
 }
 
 // radialScore reports a unit's score (theta, or 1/phi) under envelope e.
@@ -393,7 +384,7 @@ func (ev *evaluator) unit(o int) UnitResult {
 		u.Problem = plainProblem(err, m)
 		return u
 	}
-	checks := ev.checkSet(e, o, false)
+	checks := ev.checkSet(e, o)
 	holdAtOne(m, p)
 	u.Cert = e.certify(p, x0, y0, o, checks)
 	if !u.Cert.Verified {

@@ -82,7 +82,7 @@ func (ev *evaluator) super(u *UnitResult, o int) {
 			u.SuperNote = fmt.Sprintf("no finite super-efficiency score: without this unit, no combination of the other units that stays within its inputs produces any of its outputs under %s returns to scale; the unit is efficient and sits at an edge of the data", m.Returns)
 			return
 		}
-		cert := e.certify(p, x0, y0, -1, others)
+		cert := e.certify(p, x0, y0, -1, checks{units: others})
 		u.SuperCert = &cert
 		s := scoreOf(radial, p.score)
 		u.Super = &s
@@ -201,6 +201,6 @@ func Evaluate(d *Data, ref []int, x, y []float64, m Model) (*PointResult, error)
 	for q := range e.rr {
 		r.Free += p.y[sc.m+sc.s+q]
 	}
-	r.Cert = e.certify(p, x0, y0, -1, ref)
+	r.Cert = e.certify(p, x0, y0, -1, checks{ref: true})
 	return r, nil
 }

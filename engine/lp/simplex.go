@@ -7,6 +7,8 @@ import (
 
 	"gonum.org/v1/gonum/blas/blas64"
 	"gonum.org/v1/gonum/lapack/lapack64"
+
+	"peerlens/engine/internal/kernel"
 )
 
 // Errors returned by Solve. They are wrapped with detail; test with errors.Is.
@@ -45,8 +47,8 @@ type Options struct {
 	// NoScale turns off row and column scaling (for callers that scale
 	// their data themselves).
 	NoScale bool
-	// Checked says the caller has made sure every value is finite, which
-	// saves a pass over the matrix.
+	// Checked says the caller has made sure every value of A and C is
+	// finite, which saves passes over them.
 	Checked bool
 	// NoReducedCosts leaves Solution.D empty, which saves a pass over the
 	// matrix for callers that do not read it.
@@ -129,8 +131,11 @@ type solver struct {
 	ipiv     []int
 	rmax     []float64
 	yOld     []float64
-	// installed counts the entries of basis whose pos is set by tryBasis.
+	// installed counts the entries of basis whose pos is set.
 	installed int
+	// ones is how many leading column factors in s are known to be 1.
+	ones int
+	dots []float64 // pricing's buffer
 }
 
 // grow returns v resized to n, reusing its storage when it is large enough.
@@ -165,9 +170,11 @@ func check(p *Problem, opt *Options) error {
 			return fmt.Errorf("%w: right-hand side holds %v", ErrShape, v)
 		}
 	}
-	for _, v := range p.C {
-		if math.IsNaN(v) || math.IsInf(v, 0) {
-			return fmt.Errorf("%w: cost holds %v", ErrShape, v)
+	if !opt.Checked {
+		for _, v := range p.C {
+			if math.IsNaN(v) || math.IsInf(v, 0) {
+				return fmt.Errorf("%w: cost holds %v", ErrShape, v)
+			}
 		}
 	}
 	return nil
@@ -191,16 +198,28 @@ func (sv *solver) solve(p *Problem, opt *Options, sol *Solution) (*Solution, err
 	}
 	sv.scale(!opt.NoScale)
 	sv.plain = opt.NoScale
+	// Between solves every entry of pos is -1 and every entry of barred is
+	// false (see release), so a solve over many columns starts without a
+	// pass over them.
+	defer sv.release()
 	sv.basis = grow(sv.basis, m)
-	sv.pos = grow(sv.pos, n+m)
+	if cap(sv.pos) < n+m {
+		sv.pos = make([]int, n+m)
+		for i := range sv.pos {
+			sv.pos[i] = -1
+		}
+	}
+	sv.pos = sv.pos[:n+m]
 	sv.binv = grow(sv.binv, m*m)
 	sv.xb = grow(sv.xb, m)
 	sv.y = grow(sv.y, m)
 	sv.alpha = grow(sv.alpha, m)
 	sv.col = grow(sv.col, m)
 	sv.cost = grow(sv.cost, n+m)
-	sv.barred = grow(sv.barred, n+m)
-	clear(sv.barred)
+	if cap(sv.barred) < n+m {
+		sv.barred = make([]bool, n+m)
+	}
+	sv.barred = sv.barred[:n+m]
 	sv.artSign = grow(sv.artSign, m)
 	for i := range sv.artSign {
 		sv.artSign[i] = 1
@@ -209,9 +228,6 @@ func (sv *solver) solve(p *Problem, opt *Options, sol *Solution) (*Solution, err
 		}
 	}
 
-	for i := range sv.pos {
-		sv.pos[i] = -1
-	}
 	sv.installed = 0
 	started := len(opt.Basis) == m && sv.tryBasis(opt.Basis)
 	if !started {
@@ -224,8 +240,12 @@ func (sv *solver) solve(p *Problem, opt *Options, sol *Solution) (*Solution, err
 			return sol, err
 		}
 	}
-	for j := 0; j < n; j++ {
-		sv.cost[j] = p.C[j] * sv.s[j]
+	if sv.plain {
+		copy(sv.cost[:n], p.C)
+	} else {
+		for j := 0; j < n; j++ {
+			sv.cost[j] = p.C[j] * sv.s[j]
+		}
 	}
 	for k := n; k < n+m; k++ {
 		sv.cost[k] = 0
@@ -245,15 +265,22 @@ func (sv *solver) solve(p *Problem, opt *Options, sol *Solution) (*Solution, err
 func (sv *solver) scale(on bool) {
 	m, n, a := sv.m, sv.n, sv.p.A
 	sv.r = grow(sv.r, m)
-	sv.s = grow(sv.s, n)
+	if cap(sv.s) < n {
+		sv.s, sv.ones = make([]float64, n), 0
+	}
+	sv.s = sv.s[:n]
 	sv.b = grow(sv.b, m)
 	for i := range sv.r {
 		sv.r[i] = 1
 	}
-	for j := range sv.s {
+	// Column factors of 1 are kept from solve to solve (ones counts them),
+	// so unscaled solves over many columns need no pass to set them.
+	for j := sv.ones; j < n; j++ {
 		sv.s[j] = 1
 	}
+	sv.ones = max(sv.ones, n)
 	if on {
+		sv.ones = 0
 		sv.rmax = grow(sv.rmax, m)
 		rmax := sv.rmax
 		clear(rmax)
@@ -326,6 +353,17 @@ func (sv *solver) dotColumn(j int, v []float64) float64 {
 		t += a * sv.r[i] * v[i]
 	}
 	return t * sv.s[j]
+}
+
+// release restores what solve expects of pos and barred: the columns of
+// the last basis (and of a basis tryBasis left half installed) leave pos,
+// and the artificial columns' bars are lifted.
+func (sv *solver) release() {
+	for _, j := range sv.basis[:sv.installed] {
+		sv.pos[j] = -1
+	}
+	sv.installed = 0
+	clear(sv.barred[min(sv.n, len(sv.barred)):])
 }
 
 // tryBasis installs a caller's basis; it reports false when the basis is
@@ -404,13 +442,14 @@ func (sv *solver) refactor() error {
 // phase1 finds a feasible basis, starting from the artificial basis.
 func (sv *solver) phase1() error {
 	m, n := sv.m, sv.n
-	for i := range sv.pos {
-		sv.pos[i] = -1
+	for _, j := range sv.basis[:sv.installed] {
+		sv.pos[j] = -1
 	}
 	for k := 0; k < m; k++ {
 		sv.basis[k] = n + k
 		sv.pos[n+k] = k
 	}
+	sv.installed = m
 	for j := range sv.cost {
 		sv.cost[j] = 0
 		sv.barred[j] = false
@@ -616,23 +655,17 @@ func (sv *solver) price(bland bool) (int, float64) {
 	for scanned := 0; scanned < total; {
 		end := min(start+chunk, total)
 		if plain && !bland && start < n {
-			// The hot loop: structural columns as stored, basic columns
-			// (reduced cost zero in theory) skipped only when they would win.
-			// Slices cut to their lengths let the compiler drop the
-			// bounds checks from the inner loop.
+			// The hot loop: structural columns as stored (kernel.Dots),
+			// basic columns (reduced cost zero in theory) skipped only when
+			// they would win.
 			hi := min(end, n)
 			cs := sv.cost[start:hi]
 			ps := sv.pos[start:hi]
 			ps = ps[:len(cs)]
-			cols := a[start*m : hi*m]
-			yy := y[:m]
-			for k := range cs {
-				col := cols[:len(yy)]
-				cols = cols[len(yy):]
-				t := 0.0
-				for i, v := range col {
-					t += v * yy[i]
-				}
+			sv.dots = grow(sv.dots, len(cs))
+			dots := sv.dots[:len(cs)]
+			kernel.Dots(dots, a[start*m:hi*m], y[:m])
+			for k, t := range dots {
 				if d := cs[k] - t; d < best && ps[k] < 0 {
 					q, best = start+k, d
 				}
