@@ -5,7 +5,9 @@ package main
 import (
 	"context"
 	"encoding/json"
+	"errors"
 	"fmt"
+	"math"
 
 	"github.com/hack-pad/safejs"
 
@@ -19,17 +21,20 @@ const GlobalName = "peerlensEngine"
 // register puts the engine's functions on globalThis.
 func register() error {
 	return js.Register(GlobalName, map[string]js.Handler{
-		"parse":        parse,
-		"parseBytes":   parseBytes,
-		"parseRecords": parseRecords,
-		"demo":         func([]safejs.Value) (any, error) { return js.FromJSON(api.Demo()) },
-		"validate":     validate,
-		"run":          run,
-		"frontier":     frontier,
-		"explain":      explain,
-		"describe":     describe,
-		"exportCSV":    exportCSV,
-		"version":      func([]safejs.Value) (any, error) { return api.Version, nil },
+		"parse":         parse,
+		"parseBytes":    parseBytes,
+		"parseRecords":  parseRecords,
+		"demo":          func([]safejs.Value) (any, error) { return js.FromJSON(api.Demo()) },
+		"validate":      validate,
+		"run":           run,
+		"frontier":      frontier,
+		"frontierParts": frontierParts,
+		"frontierPart":  frontierPart,
+		"frontierCheck": frontierCheck,
+		"explain":       explain,
+		"describe":      describe,
+		"exportCSV":     exportCSV,
+		"version":       func([]safejs.Value) (any, error) { return api.Version, nil },
 	})
 }
 
@@ -85,25 +90,35 @@ type progressReply struct {
 	Total int `js:"total"`
 }
 
-// run(study, onProgress, units, frontier): onProgress(done, total, {done,
-// total}) is called now and then; units (optional) restricts the run to
-// those units; frontier (optional) is the candidate set frontier(study)
-// returned, so that workers sharing one run do not each compute it.
+// run(study, onProgress, units, frontier, part, parts): onProgress(done,
+// total, {done, total}) is called now and then; units (optional) restricts
+// the run to those units; frontier (optional) is the candidate set
+// frontier(study) (or frontierPart and frontierCheck) returned, so that
+// workers sharing one run do not each compute it; part of parts (optional,
+// parts above 1) makes this run one of parts shares, which merged are
+// identical to one whole run (api.Share).
 func run(args []safejs.Value) (any, error) {
 	s, err := js.JSONArg(args, 0)
 	if err != nil {
 		return nil, err
 	}
-	units, err := intsArg(args, 2, "the list of units")
-	if err != nil {
+	var sh api.Share
+	if sh.Units, err = intsArg(args, 2, "the list of units"); err != nil {
 		return nil, err
 	}
-	frontier, err := intsArg(args, 3, "the frontier")
-	if err != nil {
+	if sh.Frontier, err = intsArg(args, 3, "the frontier"); err != nil {
 		return nil, err
 	}
-	if frontier == nil && js.Given(args, 3) {
-		frontier = []int{} // an empty list given is an error, not "work it out"
+	if sh.Frontier == nil && js.Given(args, 3) {
+		sh.Frontier = []int{} // an empty list given is an error, not "work it out"
+	}
+	if js.Given(args, 4) || js.Given(args, 5) {
+		if sh.Part, err = intArg(args, 4, "the share of the run"); err != nil {
+			return nil, err
+		}
+		if sh.Parts, err = intArg(args, 5, "the number of shares of the run"); err != nil {
+			return nil, err
+		}
 	}
 	var progress func(done, total int)
 	if cb := js.Arg(args, 1); cb.Type() == safejs.TypeFunction {
@@ -116,7 +131,7 @@ func run(args []safejs.Value) (any, error) {
 			_, _ = cb.Invoke(done, total, js.ToJS(progressReply{Done: done, Total: total})) // a failing callback does not stop the run
 		}
 	}
-	return js.FromJSON(api.RunPart(context.Background(), s, units, frontier, progress))
+	return js.FromJSON(api.RunShare(context.Background(), s, sh, progress))
 }
 
 // intsArg reads an optional array of integers (nil when not given).
@@ -129,6 +144,22 @@ func intsArg(args []safejs.Value, i int, what string) ([]int, error) {
 		return nil, fmt.Errorf("%s could not be read: %w", what, err)
 	}
 	return v, nil
+}
+
+// intArg reads a required whole number.
+func intArg(args []safejs.Value, i int, what string) (int, error) {
+	v := js.Arg(args, i)
+	if v.Type() != safejs.TypeNumber {
+		return 0, fmt.Errorf("%s must be a number (argument %d)", what, i+1)
+	}
+	f, err := v.Float()
+	if err != nil {
+		return 0, err
+	}
+	if f != math.Trunc(f) || math.Abs(f) > 1<<31 {
+		return 0, fmt.Errorf("%s must be a whole number, not %v (argument %d)", what, f, i+1)
+	}
+	return int(f), nil
 }
 
 // frontier(study) returns {frontier, units}: the candidate set of the
@@ -163,4 +194,56 @@ func exportCSV(args []safejs.Value) (any, error) {
 		return nil, err
 	}
 	return api.ExportCSV(a[0], a[1])
+}
+
+// frontierParts(study) returns {parts, sizes, units}: how many independent
+// parts the search for frontier units has, how many units each covers, and
+// how many units are included.
+func frontierParts(args []safejs.Value) (any, error) {
+	s, err := js.JSONArg(args, 0)
+	if err != nil {
+		return nil, err
+	}
+	return js.FromJSON(api.FrontierParts(s))
+}
+
+// frontierPart(study, p) returns {candidates}: the candidates of part p
+// (from 0), indices into the included units in increasing order.
+func frontierPart(args []safejs.Value) (any, error) {
+	s, err := js.JSONArg(args, 0)
+	if err != nil {
+		return nil, err
+	}
+	p, err := intArg(args, 1, "the part of the search")
+	if err != nil {
+		return nil, err
+	}
+	return js.FromJSON(api.FrontierPart(context.Background(), s, p))
+}
+
+// frontierCheck(study, pool, lo, hi) returns {kept}: the units of
+// pool[lo:hi] that stay candidates against all of pool, the candidates of
+// every part in increasing order. Joined in order over consecutive pieces
+// of pool, the answers are the study's candidate set.
+func frontierCheck(args []safejs.Value) (any, error) {
+	s, err := js.JSONArg(args, 0)
+	if err != nil {
+		return nil, err
+	}
+	pool, err := intsArg(args, 1, "the pool of candidates")
+	if err != nil {
+		return nil, err
+	}
+	if pool == nil {
+		return nil, errors.New("the pool of candidates is missing (argument 2)")
+	}
+	lo, err := intArg(args, 2, "the start of the piece to check")
+	if err != nil {
+		return nil, err
+	}
+	hi, err := intArg(args, 3, "the end of the piece to check")
+	if err != nil {
+		return nil, err
+	}
+	return js.FromJSON(api.FrontierCheck(context.Background(), s, pool, lo, hi))
 }

@@ -6,11 +6,13 @@ import (
 	"bytes"
 	"context"
 	"regexp"
+	"slices"
 	"strings"
 	"testing"
 
 	"github.com/hack-pad/safejs"
 
+	"peerlens/engine/bench"
 	"peerlens/engine/dea"
 	"peerlens/engine/export"
 	"peerlens/engine/report"
@@ -316,5 +318,212 @@ func TestFrontierThenSharedRun(t *testing.T) {
 	bad, _ := safejs.ValueOf([]any{0, 999})
 	if e := js.ErrorOf(call(t, "run", demo, safejs.Null(), units, bad)); !strings.Contains(e, "frontier") {
 		t.Errorf("a foreign frontier gave %q, want a message about the frontier", e)
+	}
+}
+
+// generatedStudy is a generated study (engine/bench) as the JSON text the
+// page sends.
+func generatedStudy(t testing.TB, n int) string {
+	t.Helper()
+	var b bytes.Buffer
+	if err := bench.Study(bench.Config{Units: n, Seed: 11}, dea.DefaultModel()).Write(&b); err != nil {
+		t.Fatal(err)
+	}
+	return b.String()
+}
+
+// ok calls name and fails the test on an {error} reply.
+func ok(t testing.TB, name string, args ...any) safejs.Value {
+	t.Helper()
+	v := call(t, name, args...)
+	if e := js.ErrorOf(v); e != "" {
+		t.Fatalf("%s: %s", name, e)
+	}
+	return v
+}
+
+// ints reads a JavaScript array of numbers.
+func ints(t testing.TB, v safejs.Value) []int {
+	t.Helper()
+	var out []int
+	if err := js.FromJS(v, &out); err != nil {
+		t.Fatal(err)
+	}
+	return out
+}
+
+func field(t testing.TB, v safejs.Value, name string) safejs.Value {
+	t.Helper()
+	f, err := v.Get(name)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return f
+}
+
+func jsInts(v []int) safejs.Value {
+	a := make([]any, len(v))
+	for i, x := range v {
+		a[i] = x
+	}
+	arr, _ := safejs.ValueOf(a)
+	return arr
+}
+
+// The frontier search split the way engine.js splits it over workers
+// (frontierParts, frontierPart for each part, the candidates joined and
+// sorted, frontierCheck over consecutive pieces) finds the same set as
+// frontier(study). The study has more units than one part holds (16,384),
+// so there are several parts and the last check matters. Source: the
+// engine itself (dea.Frontier, checked in engine/dea); this tests the
+// bridge's bookkeeping.
+func TestSplitFrontierThroughBridge(t *testing.T) {
+	st := generatedStudy(t, 20000)
+	want := ints(t, field(t, ok(t, "frontier", st), "frontier"))
+	info := ok(t, "frontierParts", st)
+	parts, _ := field(t, info, "parts").Int()
+	units, _ := field(t, info, "units").Int()
+	if parts < 2 || units != 20000 {
+		t.Fatalf("frontierParts = %s, want at least two parts of 20000 units", stringify(t, info))
+	}
+	var pool []int
+	for p := range parts {
+		pool = append(pool, ints(t, field(t, ok(t, "frontierPart", st, p), "candidates"))...)
+	}
+	slices.Sort(pool)
+	var got []int
+	const pieces = 3
+	for k := range pieces {
+		lo, hi := k*len(pool)/pieces, (k+1)*len(pool)/pieces
+		got = append(got, ints(t, field(t, ok(t, "frontierCheck", st, jsInts(pool), lo, hi), "kept"))...)
+	}
+	if !slices.Equal(got, want) {
+		t.Errorf("split search: %d candidates, frontier(study): %d", len(got), len(want))
+	}
+}
+
+// run(study, onProgress, null, frontier, w, k) for w = 0..k-1, merged, is
+// identical to one whole run(study): every number, bit for bit (compared in
+// the engine's own JSON form). Source: the engine itself (dea.Run, checked
+// against the GLPK oracle in engine/dea).
+func TestSharedRunThroughBridge(t *testing.T) {
+	st := generatedStudy(t, 1500)
+	whole := canonical(t, stringify(t, ok(t, "run", st)))
+	front := field(t, ok(t, "frontier", st), "frontier")
+	const k = 3
+	var parts []*dea.Result
+	for w := range k {
+		last := 0
+		progress, err := safejs.FuncOf(func(_ safejs.Value, args []safejs.Value) any {
+			last, _ = args[0].Int()
+			return nil
+		})
+		if err != nil {
+			t.Fatal(err)
+		}
+		res := ok(t, "run", st, progress.Value(), safejs.Null(), front, w, k)
+		progress.Release()
+		r, err := api.ReadResult([]byte(stringify(t, res)))
+		if err != nil {
+			t.Fatal(err)
+		}
+		if last != len(r.Units) || len(r.Units) == 0 {
+			t.Errorf("share %d: progress ended at %d for %d units", w, last, len(r.Units))
+		}
+		parts = append(parts, r)
+	}
+	merged, err := dea.Merge(parts...)
+	if err != nil {
+		t.Fatal(err)
+	}
+	mj, err := export.JSON(merged)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if got := noNegativeZero(string(mj)); got != whole {
+		t.Errorf("%d shares merged differ from the whole run (%d and %d bytes)", k, len(got), len(whole))
+	}
+}
+
+// Arguments of the split requests that cannot be right get a message.
+func TestSplitRequestsRejectBadArguments(t *testing.T) {
+	demo := call(t, "demo")
+	pool := jsInts([]int{0, 1, 2})
+	for _, tc := range []struct {
+		name string
+		args []any
+		want string
+	}{
+		{"frontierParts", nil, "missing"},
+		{"frontierPart", []any{demo}, "the part of the search must be a number"},
+		{"frontierPart", []any{demo, "0"}, "must be a number"},
+		{"frontierPart", []any{demo, 0.5}, "must be a whole number, not 0.5"},
+		{"frontierPart", []any{demo, 3}, "has no part 3"},
+		{"frontierCheck", []any{demo}, "pool of candidates is missing"},
+		{"frontierCheck", []any{demo, "nonsense", 0, 1}, "pool of candidates could not be read"},
+		{"frontierCheck", []any{demo, pool}, "start of the piece to check must be a number"},
+		{"frontierCheck", []any{demo, pool, 0}, "end of the piece to check must be a number"},
+		{"frontierCheck", []any{demo, pool, 1, 4}, "from 1 to 4"},
+		{"frontierCheck", []any{demo, jsInts([]int{2, 0}), 0, 1}, "increasing order"},
+		{"frontierCheck", []any{demo, jsInts([]int{0, 999}), 0, 1}, "names unit 999"},
+		{"run", []any{demo, safejs.Null(), safejs.Null(), safejs.Null(), 2, 2}, "share 2 of a run shared among 2 workers does not exist"},
+		{"run", []any{demo, safejs.Null(), safejs.Null(), safejs.Null(), 0}, "the number of shares of the run must be a number"},
+		{"run", []any{demo, safejs.Null(), jsInts([]int{0}), safejs.Null(), 0, 2}, "cannot also have its own list"},
+	} {
+		v := call(t, tc.name, tc.args...)
+		if e := js.ErrorOf(v); e == "" || !strings.Contains(e, tc.want) {
+			t.Errorf("%s%v = %s, want an error containing %q", tc.name, tc.args, stringify(t, v), tc.want)
+		}
+	}
+}
+
+// The bridge keeps the last study read for the next request; two studies
+// asked for in turn still each get their own results, whether sent as
+// objects or as JSON text.
+func TestStudiesAskedInTurnKeepTheirResults(t *testing.T) {
+	a := generatedStudy(t, 60)
+	s, err := api.ReadStudy([]byte(a))
+	if err != nil {
+		t.Fatal(err)
+	}
+	s.Values[5][0] /= 4 // unit 6 needs a quarter of the first input: a different study
+	var bb bytes.Buffer
+	if err := s.Write(&bb); err != nil {
+		t.Fatal(err)
+	}
+	b := bb.String()
+	native := func(text string) string {
+		st, err := api.ReadStudy([]byte(text))
+		if err != nil {
+			t.Fatal(err)
+		}
+		d, _, err := st.Data()
+		if err != nil {
+			t.Fatal(err)
+		}
+		r, err := dea.Run(context.Background(), &d, st.Settings, nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		j, _ := export.JSON(r)
+		return noNegativeZero(string(j))
+	}
+	want := map[string]string{a: native(a), b: native(b)}
+	if want[a] == want[b] {
+		t.Fatal("the two studies have the same results; the test cannot tell them apart")
+	}
+	j, _ := safejs.Global().Get("JSON")
+	// Asked twice in a row, a study is served from the cache the second time.
+	for i, q := range []struct {
+		text   string
+		object bool // as an object, the way the worker receives it
+	}{{a, false}, {a, false}, {b, true}, {b, true}, {a, true}, {b, false}, {b, false}, {a, false}} {
+		var arg any = q.text
+		if q.object {
+			arg, _ = j.Call("parse", q.text)
+		}
+		if got := canonical(t, stringify(t, ok(t, "run", arg))); got != want[q.text] {
+			t.Errorf("request %d got results that are not its study's", i)
+		}
 	}
 }

@@ -10,7 +10,11 @@
 //	parseRecords(records)        -> {table, study, problems}   (cells from a spreadsheet)
 //	demo()                       -> study
 //	validate(study)              -> [issue, ...]
-//	run(study, onProgress, units) -> result                     (units optional)
+//	run(study, onProgress, units, frontier, part, parts) -> result (all but study optional)
+//	frontier(study)              -> {frontier, units}
+//	frontierParts(study)         -> {parts, sizes, units}
+//	frontierPart(study, p)       -> {candidates}
+//	frontierCheck(study, pool, lo, hi) -> {kept}
 //	explain(model, unitResult)   -> {unit, summary, sections}
 //	describe(model)              -> {sentences, sources, cautions}
 //	exportCSV(study, result)     -> string
