@@ -21,14 +21,22 @@
 // page's data, so a cancelled run leaves the page's study untouched.
 //
 // A large run is shared by a pool of runners (up to one per processor,
-// navigator.hardwareConcurrency, at most MAX_RUNNERS): one finds the
-// candidate set of frontier units first (the worker's frontier request),
-// then each runner compares an interleaved share of the units against it
-// (run with units and frontier), and the shares are put back together here:
-// units in order, peer counts recounted over all of them. That is
-// bookkeeping only; every number comes from the engine. Progress reports
-// the phase ('frontier', then 'units') as a third argument. Cancelling
-// terminates every runner of the pool.
+// navigator.hardwareConcurrency, at most MAX_RUNNERS), in two phases:
+//   'frontier': the search for the candidate set of frontier units is cut
+//     by the engine into independent parts (frontierParts); each runner
+//     takes the next part not yet taken until none is left (parts take
+//     uneven time), then, if there were several, the sorted union of their
+//     candidates is checked once more in one consecutive piece per runner
+//     (frontierCheck); the pieces' answers, joined, are the candidate set.
+//   'units': runner w of k evaluates every k-th chunk of units from chunk w
+//     against that set (run with frontier, part w and parts k).
+// How the engine cuts parts and chunks depends on the data alone, so the
+// shares put back together here (units in order, peer counts recounted
+// over all of them: bookkeeping only, every number comes from the engine)
+// are identical, bit for bit, to one runner's whole run. Progress reports
+// the phase as a third argument (in the 'frontier' phase, done counts the
+// units of the parts searched). Cancelling terminates every runner of the
+// pool; a failure on one runner stops the others.
 
 // POOL_FROM is the number of included units from which a run is shared;
 // below it one runner is quicker than starting several.
@@ -233,8 +241,8 @@ export class Engine {
 
   // run compares the units of study on runner workers. It returns at once
   // with {promise, cancel}; onProgress(done, total, phase) reports units
-  // done (phase 'units'), or that the frontier is being found first (phase
-  // 'frontier', done 0).
+  // done (phase 'units'), or, in a shared run, the units whose part of the
+  // frontier search is done (phase 'frontier', first).
   run(study, { onProgress, units } = {}) {
     const k = runnerCount();
     if (units || k < 2 || includedCount(study) < POOL_FROM) return this.runOne(study, { onProgress, units });
@@ -287,23 +295,53 @@ export class Engine {
         console.error(err);
       }
     };
+    // One JSON text for every request: cloning a string to a worker is
+    // cheap, and each runner's engine reads the study once and keeps it
+    // for its later requests (they carry the very same text).
+    const text = JSON.stringify(study);
+    const ready = runners.map((r) => r.ready);
+    // each runs task(client, i) for i = 0..count-1 on all runners, each
+    // runner taking the next i as soon as it is free; resolves to the
+    // answers in order of i.
+    const each = (count, task) => {
+      let next = 0;
+      const out = new Array(count);
+      return Promise.all(ready.map((r) => r.then(async (c) => {
+        while (next < count) {
+          const i = next++;
+          out[i] = await task(c, i);
+        }
+      }))).then(() => out);
+    };
     const work = async () => {
       tell(0, includedCount(study), 'frontier');
-      const first = await runners[0].ready;
-      const fs = await first.call('frontier', [study]);
-      const total = fs.units;
-      const shares = runners.map(() => []);
-      for (let j = 0; j < total; j++) shares[j % k].push(j); // interleaved: similar work for each
+      const info = await (await ready[0]).call('frontierParts', [text]);
+      const total = info.units;
+      let searched = 0;
+      const found = await each(info.parts, async (c, p) => {
+        const { candidates } = await c.call('frontierPart', [text, p]);
+        searched += info.sizes[p];
+        tell(searched, total, 'frontier');
+        return candidates;
+      });
+      const pool = found.flat().sort((a, b) => a - b);
+      let frontier = pool; // one part: its candidates are the set
+      if (info.parts > 1) {
+        const pieces = Math.min(k, pool.length);
+        const cut = (i) => Math.floor((i * pool.length) / pieces);
+        const kept = await each(pieces, (c, i) => c.call('frontierCheck', [text, pool, cut(i), cut(i + 1)]));
+        frontier = kept.flatMap((r) => r.kept); // in pool order: sorted
+      }
       const done = runners.map(() => 0);
       tell(0, total, 'units');
-      const parts = await Promise.all(runners.map((r, w) => r.ready.then((c) =>
-        c.call('run', [study, shares[w], fs.frontier], {
+      const parts = await Promise.all(ready.map((r, w) => r.then((c) =>
+        c.call('run', [text, null, frontier, w, k], {
           onProgress(d) {
             done[w] = d;
             tell(done.reduce((a, b) => a + b, 0), total, 'units');
           },
         }))));
-      return mergeShares(parts, fs.frontier);
+      return mergeShares(parts, frontier);
     };
     const promise = work().then(
       (result) => {

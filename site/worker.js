@@ -26,8 +26,17 @@
 //   validate     [study]                           [issue]
 //   frontier     [study]                           {frontier, units}  (candidate set, indices into the
 //                                                  included units; units: how many are included)
-//   run          [study, units?, frontier?]        result  (units: indices into the included units;
-//                                                  frontier: the candidate set from frontier)
+//   frontierParts [study]                          {parts, sizes, units}  (the search for the candidate
+//                                                  set cut into independent parts; sizes: units in each)
+//   frontierPart [study, p]                        {candidates}  (of part p, from 0)
+//   frontierCheck [study, pool, lo, hi]            {kept}  (units of pool[lo:hi] that stay candidates
+//                                                  against all of pool, the sorted union of every
+//                                                  part's candidates; joined over consecutive pieces:
+//                                                  the candidate set)
+//   run          [study, units?, frontier?,        result  (units: indices into the included units;
+//                 part?, parts?]                   frontier: the candidate set; part of parts: every
+//                                                  parts-th chunk of units from chunk part, so that
+//                                                  the parts merged equal one whole run bit for bit)
 //   explain      [model, unitResult]               {unit, summary, sections}
 //   describe     [model]                           {sentences, sources, cautions}
 //   exportCSV    [study, result]                   string
@@ -41,8 +50,11 @@
 // The studies and results are the engine's JSON forms (see wasm/main.go).
 // The spreadsheet module (peerlens-sheets.wasm) is loaded only when
 // parseXLSX or exportXLSX is first asked for. Several workers can run side
-// by side, each given a share of the units through run's units argument and
-// the candidate set one of them found first through frontier.
+// by side: they find the candidate set together (frontierParts,
+// frontierPart, frontierCheck), then each runs its part of the units
+// against it (run with frontier, part and parts). A study may be sent as
+// JSON text instead of an object; the engine keeps the last study it read,
+// so a runner asked several times about the same study reads it once.
 'use strict';
 
 let base = '';
@@ -129,10 +141,13 @@ const ops = {
   demo: () => check(engine.demo()),
   validate: (study) => check(engine.validate(study)),
   frontier: (study) => check(engine.frontier(study)),
-  run(study, units, frontier, id) {
+  frontierParts: (study) => check(engine.frontierParts(study)),
+  frontierPart: (study, p) => check(engine.frontierPart(study, p)),
+  frontierCheck: (study, pool, lo, hi) => check(engine.frontierCheck(study, pool, lo, hi)),
+  run(study, units, frontier, part, parts, id) {
     const progress = (done, total) => postMessage({ id, type: 'progress', done, total });
     const opt = (v) => (v == null ? undefined : v);
-    return check(engine.run(study, progress, opt(units), opt(frontier)));
+    return check(engine.run(study, progress, opt(units), opt(frontier), opt(part), opt(parts)));
   },
   explain: (model, unit) => check(engine.explain(model, unit)),
   describe: (model) => check(engine.describe(model)),
@@ -163,7 +178,7 @@ async function answer(msg) {
     if (!engine) throw new Error('The engine is not running; reload the page.');
     const fn = ops[op];
     if (!fn) throw new Error('unknown request ' + JSON.stringify(op));
-    if (op === 'run') args.length = 3; // study, units, frontier; then the request id
+    if (op === 'run') args.length = 5; // study, units, frontier, part, parts; then the request id
     const value = await fn(...(op === 'run' ? [...args, id] : args));
     const transfer = value instanceof ArrayBuffer ? [value] : [];
     postMessage({ id, type: 'result', value }, transfer);

@@ -90,9 +90,10 @@ func TestPooledRunMatchesNativeEngine(t *testing.T) {
 // TestPooledRunUsesWorkersAndReportsPhases drives the page's engine module
 // directly on the same kind of study: the run is shared by
 // min(hardwareConcurrency, 8) workers besides the engine's own, reports the
-// frontier phase first and then units done up to the total, and gives the
-// same scores as a run restricted to one worker's worth (the units option,
-// which always uses a single worker).
+// frontier phase first (units searched, up to the total) and then units
+// done up to the total, and gives a result identical in every number (its
+// JSON text) to the run on one worker (the units option, which always uses
+// a single worker).
 func TestPooledRunUsesWorkersAndReportsPhases(t *testing.T) {
 	t.Parallel()
 	tb := open(t, 1280, 900)
@@ -103,6 +104,7 @@ func TestPooledRunUsesWorkersAndReportsPhases(t *testing.T) {
 	}
 	type report struct {
 		Workers, Expected, Units, Last, Total int
+		Searched, FrontierTotal               int
 		Phases                                []string
 		Monotone                              bool
 		Same                                  bool
@@ -115,11 +117,12 @@ func TestPooledRunUsesWorkersAndReportsPhases(t *testing.T) {
 		const { Engine } = await import(new URL('engine.js', document.baseURI).href);
 		const eng = await Engine.start();
 		await new Promise(r => setTimeout(r, 200)); // the engine's spare runner is already counted
-		const phases = [], dones = [];
-		let total = 0;
+		const phases = [], dones = [], searched = [];
+		let total = 0, frontierTotal = 0;
 		const { promise } = eng.run(study, { onProgress(done, tot, phase) {
 			if (phases[phases.length - 1] !== phase) phases.push(phase);
 			if (phase === 'units') { dones.push(done); total = tot; }
+			if (phase === 'frontier') { searched.push(done); frontierTotal = tot; }
 		} });
 		const res = await promise;
 		const all = [...Array(study.units.length).keys()];
@@ -132,8 +135,9 @@ func TestPooledRunUsesWorkersAndReportsPhases(t *testing.T) {
 			units: res.units.length,
 			last: dones[dones.length - 1], total,
 			phases,
-			monotone: dones.every((d, i) => i === 0 || d >= dones[i - 1]),
-			same: res.units.every((u, k) => u.index === k && u.score === one.units[k].score && u.peerCount === one.units[k].peerCount && u.status === one.units[k].status),
+			monotone: [dones, searched].every((ds) => ds.every((d, i) => i === 0 || d >= ds[i - 1])),
+			searched: searched[searched.length - 1], frontierTotal,
+			same: JSON.stringify(res) === JSON.stringify(one),
 		};
 	})()`)
 	if r.Expected >= 2 && r.Workers != r.Expected {
@@ -144,6 +148,9 @@ func TestPooledRunUsesWorkersAndReportsPhases(t *testing.T) {
 	}
 	if strings.Join(r.Phases, ",") != "frontier,units" || !r.Monotone {
 		t.Errorf("progress phases %v (never going back: %v), want frontier then units", r.Phases, r.Monotone)
+	}
+	if r.Searched != pooledUnits || r.FrontierTotal != pooledUnits {
+		t.Errorf("frontier progress ended at %d of %d units searched, want %d", r.Searched, r.FrontierTotal, pooledUnits)
 	}
 	if !r.Same {
 		t.Errorf("the shared run differs from the same run on one worker")
@@ -170,5 +177,90 @@ func (tb *tab) cancelRunning(before string) {
 	}
 	if after := eval[string](tb, `JSON.stringify(window.peerlens.study)`); after != before {
 		t.Errorf("the study changed when the run was cancelled")
+	}
+}
+
+// partsUnits is above the 16,384 units one part of the engine's frontier
+// search covers, so the page searches several parts on its workers and
+// checks their candidates once more.
+const partsUnits = 20000
+
+// TestPooledFrontierInParts drives the page's engine module on a study of
+// more units than one part of the frontier search holds: the workers
+// search the parts, then check the union in pieces, and the candidate set
+// they hand to the units phase is exactly the one the engine finds in one
+// call (the frontier request on the engine's own worker). Source: the engine
+// itself (dea.Frontier); this checks the page's bookkeeping. The run is
+// cancelled as soon as the units phase starts: the requests it posted show
+// what it was about to do, and the units phase is tested above.
+func TestPooledFrontierInParts(t *testing.T) {
+	t.Parallel()
+	tb := open(t, 1280, 900)
+	s := bench.Study(bench.Config{Units: partsUnits, Seed: 9}, dea.DefaultModel())
+	var file bytes.Buffer
+	if err := s.Write(&file); err != nil {
+		t.Fatal(err)
+	}
+	type report struct {
+		Ops                    []string
+		Runs                   [][2]int // part and parts of every run request
+		Searched               []int
+		FrontierTotal          int
+		Sent, Want             []int
+		Cancelled, AfterCancel bool
+	}
+	r := eval[report](tb, `(async () => {
+		const study = `+file.String()+`;
+		const ops = [], runs = [], searched = [];
+		let sent = null, frontierTotal = 0, handle = null, cancelled = false, stopped = false;
+		const W = window.Worker;
+		window.Worker = class extends W {
+			postMessage(m, ...rest) {
+				if (m && m.op && m.op !== 'init') {
+					ops.push(m.op);
+					if (m.op === 'run' && !stopped) {
+						sent = sent || m.args[2];
+						runs.push([m.args[3], m.args[4]]);
+						setTimeout(() => { stopped = true; handle.cancel(); }, 0); // the frontier is known: stop here
+					}
+				}
+				return super.postMessage(m, ...rest);
+			}
+		};
+		const { Engine } = await import(new URL('engine.js', document.baseURI).href);
+		const eng = await Engine.start();
+		handle = eng.run(study, { onProgress(done, tot, phase) {
+			if (phase === 'frontier') { searched.push(done); frontierTotal = tot; }
+		} });
+		try { await handle.promise; } catch (err) { cancelled = err.name === 'Cancelled'; }
+		const want = (await eng.request('frontier', study)).frontier;
+		// After the cancel a small run still works (fresh runners).
+		const small = { ...study, leftOut: study.units.slice(50) };
+		const after = await eng.run(small).promise;
+		eng.close();
+		window.Worker = W;
+		return { ops: [...new Set(ops)], runs, searched, frontierTotal, sent: sent || [], want, cancelled, afterCancel: after.units.length === 50 };
+	})()`)
+	for _, op := range []string{"frontierParts", "frontierPart", "frontierCheck", "run"} {
+		if !slices.Contains(r.Ops, op) {
+			t.Errorf("the shared run never asked a worker for %s (asked: %v)", op, r.Ops)
+		}
+	}
+	if !slices.Equal(r.Sent, r.Want) {
+		t.Errorf("the shared run found %d candidates, the engine in one call %d", len(r.Sent), len(r.Want))
+	}
+	k := len(r.Runs)
+	for w, run := range r.Runs {
+		if run != [2]int{w, k} {
+			t.Errorf("run request %d asked for part %d of %d, want %d of %d", w, run[0], run[1], w, k)
+		}
+	}
+	// 0 first, then once per part searched, growing to all units.
+	if len(r.Searched) < 3 || r.Searched[0] != 0 || r.Searched[len(r.Searched)-1] != partsUnits || r.FrontierTotal != partsUnits ||
+		!slices.IsSorted(r.Searched) {
+		t.Errorf("frontier progress %v of %d, want 0, then growing once per part to %d", r.Searched, r.FrontierTotal, partsUnits)
+	}
+	if !r.Cancelled || !r.AfterCancel {
+		t.Errorf("cancel gave Cancelled: %v; a run after it worked: %v", r.Cancelled, r.AfterCancel)
 	}
 }
