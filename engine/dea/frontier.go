@@ -17,8 +17,9 @@ const blockSize = 256
 // covers. Parts are independent, so they can be searched at the same time
 // (goroutines natively, Web Workers in the page); how units are cut into
 // parts depends on the data alone, never on the number of workers, so the
-// candidate set is the same however many workers find it.
-const partSize = 16384
+// candidate set is the same however many workers find it. (A variable only
+// so that tests can cut small studies into parts.)
+var partSize = 16384
 
 // localRounds is the number of rounds whose blocks are stretches of similar
 // units (see evalOrder) rather than random draws: similar units are the ones

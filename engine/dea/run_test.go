@@ -4,6 +4,7 @@ import (
 	"context"
 	"math"
 	"math/rand/v2"
+	"slices"
 	"testing"
 )
 
@@ -163,5 +164,87 @@ func TestMergeEqualsOneRun(t *testing.T) {
 		if _, err := RunWith(ctx, d, m, bad); err == nil {
 			t.Errorf("options %+v should be refused", bad)
 		}
+	}
+}
+
+// A study cut into several parts gets a candidate set that gives the same
+// scores and slack sums as evaluating every unit against all units, and the
+// pieces the page uses (FrontierParts, FrontierPart, FrontierCheck over an
+// uneven split of the pool) give exactly the set Frontier gives. Duplicated
+// units (ties that no block can break) are part of the data.
+func TestFrontierInPartsMatchesFull(t *testing.T) {
+	old := partSize
+	partSize = 700
+	defer func() { partSize = old }()
+	d := cobbDouglas(2600, 3, 2, 5)
+	for k := 0; k < 40; k++ { // copies of units, some on the frontier
+		d.X = append(d.X, append([]float64(nil), d.X[k*7]...))
+		d.Y = append(d.Y, append([]float64(nil), d.Y[k*7]...))
+	}
+	n := len(d.X)
+	ctx := context.Background()
+	parts := FrontierParts(d)
+	if len(parts) < 3 {
+		t.Fatalf("%d parts for %d units of at most %d", len(parts), n, partSize)
+	}
+	seen := make([]bool, n)
+	var pool []int
+	for _, p := range parts {
+		for _, j := range p {
+			if seen[j] {
+				t.Fatalf("unit %d in two parts", j)
+			}
+			seen[j] = true
+		}
+		c, err := FrontierPart(ctx, d, p)
+		if err != nil {
+			t.Fatal(err)
+		}
+		pool = append(pool, c...)
+	}
+	for j, s := range seen {
+		if !s {
+			t.Fatalf("unit %d in no part", j)
+		}
+	}
+	slices.Sort(pool)
+	var pieced []int
+	for _, cut := range [][2]int{{0, 5}, {5, len(pool) / 3}, {len(pool) / 3, len(pool)}} {
+		kept, err := FrontierCheck(ctx, d, pool, pool[cut[0]:cut[1]])
+		if err != nil {
+			t.Fatal(err)
+		}
+		pieced = append(pieced, kept...)
+	}
+	for _, w := range []int{1, 2} {
+		f, err := frontier(ctx, scaleData(d), w)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if !slices.Equal(f, pieced) {
+			t.Fatalf("%d workers: Frontier gives %d units, the pieces %d", w, len(f), len(pieced))
+		}
+	}
+	all := make([]int, n)
+	for j := range all {
+		all[j] = j
+	}
+	m := Model{Returns: Variable, Orientation: Input, SecondStage: true}
+	fast, err := RunWith(ctx, d, m, Options{Frontier: pieced})
+	if err != nil {
+		t.Fatal(err)
+	}
+	full, err := RunWith(ctx, d, m, Options{Frontier: all})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for k := range fast.Units {
+		a, b := fast.Units[k], full.Units[k]
+		if math.Abs(a.Score-b.Score) > 1e-8 || math.Abs(slackSum(a)-slackSum(b)) > 1e-6*(1+slackSum(b)) || !a.Cert.Verified {
+			t.Errorf("unit %d: score %v slack sum %v (verified %v) with the parts' candidates, %v and %v with all units", k, a.Score, slackSum(a), a.Cert.Verified, b.Score, slackSum(b))
+		}
+	}
+	if _, err := FrontierCheck(ctx, d, pool, []int{n}); err == nil {
+		t.Error("a unit index out of range should be refused")
 	}
 }
