@@ -288,6 +288,10 @@ type evaluator struct {
 	vrs  *envelope
 	nirs *envelope
 	all  []int // every unit, for full dual checks on small studies
+	// wideEnv is the envelope over all units, for the rare unit whose
+	// program over the candidate set fails (see unit); made on first use.
+	wideEnv *envelope
+	wideRef []int
 	// checkBuf is checkSet's buffer (one per evaluator, so per goroutine).
 	checkBuf []int
 }
@@ -322,7 +326,7 @@ func (ev *evaluator) reset() {
 
 func (ev *evaluator) clone() *evaluator {
 	c := *ev
-	c.checkBuf = nil
+	c.checkBuf, c.wideEnv = nil, nil
 	c.main = ev.main.clone()
 	if ev.crs != nil {
 		c.crs, c.vrs, c.nirs = ev.crs.clone(), ev.vrs.clone(), ev.nirs.clone()
@@ -364,17 +368,18 @@ func scoreOf(m Model, v float64) float64 {
 
 // unit evaluates unit o completely.
 func (ev *evaluator) unit(o int) UnitResult {
-	sc, d, m := ev.sc, ev.d, ev.m
+	d, m := ev.d, ev.m
 	u := UnitResult{Index: o, Name: unitName(d, o), Peers: []Peer{}}
 	e := ev.main
-	x0, y0 := sc.x[o], sc.y[o]
-	p, err := e.solveOrRetry(x0, y0, o, m.SecondStage)
-	if err == nil && p.self > lambdaTol {
-		if _, in := e.inRef[o]; !in {
-			// The unit is not a candidate, so it is dominated by candidates and
-			// never needed in its own combination: solve without it for clean peers.
-			if q, err2 := e.solve(x0, y0, o, true, m.SecondStage); err2 == nil {
-				p = q
+	p, cert, err := ev.attempt(e, o)
+	if (err != nil && !errors.Is(err, ErrNoFiniteScore)) || (err == nil && !cert.Verified) {
+		// Rarer still, on data whose units differ in size by many orders
+		// of magnitude: the program over the candidate set stays hard for
+		// the solver while the one over all units (by column generation)
+		// is not. Keep that answer if it checks out.
+		if w := ev.wide(); w != nil {
+			if q, c, err2 := ev.attempt(w, o); err2 == nil && c.Verified {
+				e, p, cert, err = w, q, c, nil
 			}
 		}
 	}
@@ -384,27 +389,7 @@ func (ev *evaluator) unit(o int) UnitResult {
 		u.Problem = plainProblem(err, m)
 		return u
 	}
-	checks := ev.checkSet(e, o)
-	holdAtOne(m, p)
-	u.Cert = e.certify(p, x0, y0, o, checks)
-	if !u.Cert.Verified {
-		// Rare, on badly scaled data: solve again with the solver's own
-		// scaling and a fresh phase 1, and keep that answer if it checks out.
-		saved := append([]float64(nil), p.lambda...) // solve reuses the lambda buffer
-		e.careful = true
-		q, err2 := e.solve(x0, y0, o, false, m.SecondStage)
-		e.careful = false
-		adopted := false
-		if err2 == nil {
-			holdAtOne(m, q)
-			if c := e.certify(q, x0, y0, o, checks); c.Verified {
-				p, u.Cert, adopted = q, c, true
-			}
-		}
-		if !adopted {
-			copy(p.lambda, saved)
-		}
-	}
+	u.Cert = cert
 	u.Score = scoreOf(m, p.score)
 	if m.Orientation == Output {
 		u.Expansion = p.score
@@ -417,6 +402,65 @@ func (ev *evaluator) unit(o int) UnitResult {
 		ev.super(&u, o)
 	}
 	return u
+}
+
+// attempt solves unit o's program under envelope e and certifies the
+// answer; when the certificate fails it solves again with the solver's own
+// scaling and a fresh phase 1, and keeps that answer if it checks out.
+func (ev *evaluator) attempt(e *envelope, o int) (*point, Certificate, error) {
+	m := ev.m
+	x0, y0 := ev.sc.x[o], ev.sc.y[o]
+	p, err := e.solveOrRetry(x0, y0, o, m.SecondStage)
+	if err == nil && p.self > lambdaTol {
+		if _, in := e.inRef[o]; !in {
+			// The unit is not a candidate, so it is dominated by candidates and
+			// never needed in its own combination: solve without it for clean peers.
+			if q, err2 := e.solve(x0, y0, o, true, m.SecondStage); err2 == nil {
+				p = q
+			}
+		}
+	}
+	if err != nil {
+		return nil, Certificate{}, err
+	}
+	checks := ev.checkSet(e, o)
+	holdAtOne(m, p)
+	cert := e.certify(p, x0, y0, o, checks)
+	if !cert.Verified {
+		saved := append([]float64(nil), p.lambda...) // solve reuses the lambda buffer
+		e.careful = true
+		q, err2 := e.solve(x0, y0, o, false, m.SecondStage)
+		e.careful = false
+		if err2 == nil {
+			holdAtOne(m, q)
+			if c := e.certify(q, x0, y0, o, checks); c.Verified {
+				return q, c, nil
+			}
+		}
+		copy(p.lambda, saved)
+	}
+	return p, cert, nil
+}
+
+// wide returns the envelope over all units (made on first use), or nil when
+// the candidate set already holds every unit.
+func (ev *evaluator) wide() *envelope {
+	if len(ev.cand) == ev.sc.n {
+		return nil
+	}
+	if ev.all == nil {
+		all := make([]int, ev.sc.n)
+		for j := range all {
+			all[j] = j
+		}
+		ev.wideRef = all
+	} else {
+		ev.wideRef = ev.all
+	}
+	if ev.wideEnv == nil {
+		ev.wideEnv = newEnvelope(ev.sc, ev.wideRef, ev.m)
+	}
+	return ev.wideEnv
 }
 
 // solveOrRetry solves a unit's program; when the solver runs into numerical
