@@ -37,13 +37,15 @@
 //                 part?, parts?]                   frontier: the candidate set; part of parts: every
 //                                                  parts-th chunk of units from chunk part, so that
 //                                                  the parts merged equal one whole run bit for bit)
+//   runJSON      as run                            ArrayBuffer (transferred): the result's JSON text,
+//                                                  UTF-8; much quicker to hand over when large
 //   explain      [model, unitResult]               {unit, summary, sections}
 //   describe     [model]                           {sentences, sources, cautions}
 //   exportCSV    [study, result]                   string
 //   exportXLSX   [study, result, dateISO]          ArrayBuffer (transferred)
 //   useSheets    [WebAssembly.Module]              true (the single-file build hands over the spreadsheet module)
 // worker -> page, for each request:
-//   {id, type: 'progress', done, total}   run only, now and then (units done of total)
+//   {id, type: 'progress', done, total}   run and runJSON only, now and then (units done of total)
 //   {id, type: 'result', value}           success
 //   {id, type: 'error', message}          failure, in plain words
 //
@@ -115,6 +117,14 @@ function check(v) {
 
 const bytes = (buf) => (buf instanceof Uint8Array ? buf : new Uint8Array(buf));
 
+// runArgs turns run's arguments after the study, and the request id, into
+// the engine's: progress messages for the request, then the options.
+function runArgs(units, frontier, part, parts, id) {
+  const progress = (done, total) => postMessage({ id, type: 'progress', done, total });
+  const opt = (v) => (v == null ? undefined : v);
+  return [progress, opt(units), opt(frontier), opt(part), opt(parts)];
+}
+
 const ops = {
   parse: (text) => check(engine.parse(String(text))),
   parseBytes: (buf) => check(engine.parseBytes(bytes(buf))),
@@ -144,11 +154,11 @@ const ops = {
   frontierParts: (study) => check(engine.frontierParts(study)),
   frontierPart: (study, p) => check(engine.frontierPart(study, p)),
   frontierCheck: (study, pool, lo, hi) => check(engine.frontierCheck(study, pool, lo, hi)),
-  run(study, units, frontier, part, parts, id) {
-    const progress = (done, total) => postMessage({ id, type: 'progress', done, total });
-    const opt = (v) => (v == null ? undefined : v);
-    return check(engine.run(study, progress, opt(units), opt(frontier), opt(part), opt(parts)));
-  },
+  run: (study, ...rest) => check(engine.run(study, ...runArgs(...rest))),
+  // runJSON answers with the result's JSON text as bytes, in a buffer that
+  // is handed over to the page rather than copied (see runJSON in
+  // wasm/bridge.go).
+  runJSON: (study, ...rest) => check(engine.runJSON(study, ...runArgs(...rest))).buffer,
   explain: (model, unit) => check(engine.explain(model, unit)),
   describe: (model) => check(engine.describe(model)),
   exportCSV: (study, result) => check(engine.exportCSV(study, result)),
@@ -178,8 +188,9 @@ async function answer(msg) {
     if (!engine) throw new Error('The engine is not running; reload the page.');
     const fn = ops[op];
     if (!fn) throw new Error('unknown request ' + JSON.stringify(op));
-    if (op === 'run') args.length = 5; // study, units, frontier, part, parts; then the request id
-    const value = await fn(...(op === 'run' ? [...args, id] : args));
+    const running = op === 'run' || op === 'runJSON';
+    if (running) args.length = 5; // study, units, frontier, part, parts; then the request id
+    const value = await fn(...(running ? [...args, id] : args));
     const transfer = value instanceof ArrayBuffer ? [value] : [];
     postMessage({ id, type: 'result', value }, transfer);
   } catch (err) {

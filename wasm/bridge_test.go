@@ -402,10 +402,11 @@ func TestSplitFrontierThroughBridge(t *testing.T) {
 	}
 }
 
-// run(study, onProgress, null, frontier, w, k) for w = 0..k-1, merged, is
-// identical to one whole run(study): every number, bit for bit (compared in
-// the engine's own JSON form). Source: the engine itself (dea.Run, checked
-// against the GLPK oracle in engine/dea).
+// runJSON(study, onProgress, null, frontier, w, k) for w = 0..k-1 (run's
+// arguments, the result as JSON bytes), merged, is identical to one whole
+// run(study): every number, bit for bit (compared in the engine's own JSON
+// form). Source: the engine itself (dea.Run, checked against the GLPK
+// oracle in engine/dea).
 func TestSharedRunThroughBridge(t *testing.T) {
 	st := generatedStudy(t, 1500)
 	whole := canonical(t, stringify(t, ok(t, "run", st)))
@@ -421,9 +422,17 @@ func TestSharedRunThroughBridge(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		res := ok(t, "run", st, progress.Value(), safejs.Null(), front, w, k)
+		res := ok(t, "runJSON", st, progress.Value(), safejs.Null(), front, w, k)
 		progress.Release()
-		r, err := api.ReadResult([]byte(stringify(t, res)))
+		n, err := res.Length()
+		if err != nil {
+			t.Fatal(err)
+		}
+		b := make([]byte, n)
+		if _, err := safejs.CopyBytesToGo(b, res); err != nil {
+			t.Fatalf("runJSON did not answer with bytes: %v", err)
+		}
+		r, err := api.ReadResult(b)
 		if err != nil {
 			t.Fatal(err)
 		}

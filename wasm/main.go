@@ -11,6 +11,7 @@
 //	demo()                       -> study
 //	validate(study)              -> [issue, ...]
 //	run(study, onProgress, units, frontier, part, parts) -> result (all but study optional)
+//	runJSON(same arguments)      -> Uint8Array          (the result's JSON text)
 //	frontier(study)              -> {frontier, units}
 //	frontierParts(study)         -> {parts, sizes, units}
 //	frontierPart(study, p)       -> {candidates}

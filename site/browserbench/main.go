@@ -14,7 +14,9 @@
 // a fresh Chromium (fresh profile) opens an empty page of the same origin,
 // loads the study as a file, and calls Engine.run from engine.js. It prints
 // one line per size: units, runner workers used, wall time (from the call of
-// run to the merged result), progress updates seen, the peak of
+// run to the merged result) and its phases as the page's progress shows
+// them (the frontier: its parts, then the last check; the units; then the
+// results handed to the page and merged), progress updates seen, the peak of
 // performance.memory.usedJSHeapSize on the page's thread (the workers' heaps
 // are not in it), and the peak of the summed resident memory (RSS) of the
 // Chromium processes, read from /proc every 500 ms (shared pages are counted
@@ -48,6 +50,8 @@ type Measure struct {
 	Processors  int     `json:"hardwareConcurrency"`
 	WallSec     float64 `json:"wallSec"`
 	FrontierSec float64 `json:"frontierSec"` // until the first units progress
+	PartsSec    float64 `json:"partsSec"`    // until every part of the frontier search was done
+	ComputedSec float64 `json:"computedSec"` // until the last units progress (all units evaluated)
 	Updates     int     `json:"progressUpdates"`
 	Frontier    int     `json:"frontier"`
 	PeakHeapMB  float64 `json:"peakPageHeapMB"`
@@ -57,20 +61,23 @@ type Measure struct {
 
 // pageState is what the page keeps about the run, polled from here.
 type pageState struct {
-	Phase     string  `json:"phase"`
-	Done      int     `json:"done"`
-	Total     int     `json:"total"`
-	Updates   int     `json:"updates"`
-	HeapPeak  float64 `json:"heapPeak"`
-	Finished  bool    `json:"finished"`
-	Error     string  `json:"error"`
-	Workers   int     `json:"workers"`
-	Procs     int     `json:"procs"`
-	WallMS    float64 `json:"wallMs"`
-	FrontMS   float64 `json:"frontierMs"`
-	Units     int     `json:"units"`
-	Frontier  int     `json:"frontier"`
-	Unordered int     `json:"unordered"`
+	Phase     string       `json:"phase"`
+	Done      int          `json:"done"`
+	Total     int          `json:"total"`
+	Updates   int          `json:"updates"`
+	HeapPeak  float64      `json:"heapPeak"`
+	Finished  bool         `json:"finished"`
+	Error     string       `json:"error"`
+	Workers   int          `json:"workers"`
+	Procs     int          `json:"procs"`
+	WallMS    float64      `json:"wallMs"`
+	FrontMS   float64      `json:"frontierMs"`
+	PartsMS   float64      `json:"partsMs"`
+	CompMS    float64      `json:"computedMs"`
+	Units     int          `json:"units"`
+	Frontier  int          `json:"frontier"`
+	Unordered int          `json:"unordered"`
+	Arrived   [][2]float64 `json:"arrived"`
 }
 
 func main() {
@@ -126,8 +133,9 @@ func run(sizes string, seed uint64, chrome string, limit time.Duration) error {
 			return fmt.Errorf("%d units: %w", n, err)
 		}
 		os.Remove(filepath.Join(site, name))
-		fmt.Printf("browser: %d units, %d runner workers (hardwareConcurrency %d), wall %.2f s (frontier %.2f s), %d progress updates, frontier %d units, peak page heap %.1f MB, peak Chromium RSS (sum) %.0f MB, load average %s\n",
-			m.Units, m.Workers, m.Processors, m.WallSec, m.FrontierSec, m.Updates, m.Frontier, m.PeakHeapMB, m.PeakRSSMB, m.Load1)
+		fmt.Printf("browser: %d units, %d runner workers (hardwareConcurrency %d), wall %.2f s (frontier %.2f s: parts %.2f s, last check %.2f s; units %.2f s; results to the page %.2f s), %d progress updates, frontier %d units, peak page heap %.1f MB, peak Chromium RSS (sum) %.0f MB, load average %s\n",
+			m.Units, m.Workers, m.Processors, m.WallSec, m.FrontierSec, m.PartsSec, m.FrontierSec-m.PartsSec, m.ComputedSec-m.FrontierSec, m.WallSec-m.ComputedSec,
+			m.Updates, m.Frontier, m.PeakHeapMB, m.PeakRSSMB, m.Load1)
 		line, _ := json.Marshal(m)
 		fmt.Println(string(line))
 	}
@@ -144,15 +152,27 @@ const startJS = `(async () => {
 	try {
 		let made = 0;
 		const W = window.Worker;
-		window.Worker = class extends W { constructor(...a) { super(...a); made++; } };
+		// Results arriving from the runners: when the message came, and when
+		// its value was read (structured clone is undone on first access).
+		st.arrived = [];
+		window.Worker = class extends W { constructor(...a) { super(...a); made++;
+			this.addEventListener('message', (e) => {
+				const t = performance.now();
+				const m = e.data;
+				if (m && m.type === 'result' && st.t0) st.arrived.push([t - st.t0, performance.now() - st.t0]);
+			});
+		} };
 		const { Engine } = await import(new URL('engine.js', document.baseURI).href);
 		const eng = await Engine.start();
 		const study = await (await fetch(%q)).json();
 		await new Promise((r) => setTimeout(r, 500)); // the spare runner warms up
 		const before = made;
-		const t0 = performance.now();
+		const t0 = st.t0 = performance.now();
 		const { promise } = eng.run(study, { onProgress(done, total, phase) {
-			if (phase === 'units' && st.phase !== 'units') st.frontierMs = performance.now() - t0;
+			const now = performance.now() - t0;
+			if (phase === 'units' && st.phase !== 'units') st.frontierMs = now;
+			if (phase === 'frontier' && done === total && !st.partsMs) st.partsMs = now;
+			if (phase === 'units' && done === total) st.computedMs = now;
 			st.phase = phase; st.done = done; st.total = total; st.updates++;
 			heap();
 		} });
@@ -216,9 +236,11 @@ func measure(base, studyFile, chrome, profile string, limit time.Duration) (*Mea
 	}
 	m.Units, m.Workers, m.Processors = st.Units, st.Workers, st.Procs
 	m.WallSec, m.FrontierSec = st.WallMS/1000, st.FrontMS/1000
+	m.PartsSec, m.ComputedSec = st.PartsMS/1000, st.CompMS/1000
 	m.Updates, m.Frontier = st.Updates, st.Frontier
 	m.PeakHeapMB = st.HeapPeak / (1 << 20)
 	m.Load1 += " -> " + loadAverage()
+	fmt.Fprintf(os.Stderr, "  results arrived (ms since run, ms after reading them): %v\n", st.Arrived)
 	return m, nil
 }
 

@@ -218,7 +218,7 @@ func TestPooledFrontierInParts(t *testing.T) {
 			postMessage(m, ...rest) {
 				if (m && m.op && m.op !== 'init') {
 					ops.push(m.op);
-					if (m.op === 'run' && !stopped) {
+					if (m.op === 'runJSON' && !stopped) {
 						sent = sent || m.args[2];
 						runs.push([m.args[3], m.args[4]]);
 						setTimeout(() => { stopped = true; handle.cancel(); }, 0); // the frontier is known: stop here
@@ -241,7 +241,7 @@ func TestPooledFrontierInParts(t *testing.T) {
 		window.Worker = W;
 		return { ops: [...new Set(ops)], runs, searched, frontierTotal, sent: sent || [], want, cancelled, afterCancel: after.units.length === 50 };
 	})()`)
-	for _, op := range []string{"frontierParts", "frontierPart", "frontierCheck", "run"} {
+	for _, op := range []string{"frontierParts", "frontierPart", "frontierCheck", "runJSON"} {
 		if !slices.Contains(r.Ops, op) {
 			t.Errorf("the shared run never asked a worker for %s (asked: %v)", op, r.Ops)
 		}
