@@ -417,24 +417,19 @@ func (v *validator) magnitudes() {
 }
 
 func (v *validator) leftOut() {
+	in := make([]bool, len(v.s.Units))
+	for _, i := range v.units {
+		in[i] = true
+	}
 	var out []int
 	for i := range v.s.Units {
-		if !contains(v.units, i) {
+		if !in[i] {
 			out = append(out, i)
 		}
 	}
 	if len(out) > 0 {
 		v.add(Note, CodeLeftOut, out, nil, "Left out of the run (kept in the study): %s.", v.unitList(out))
 	}
-}
-
-func contains(xs []int, x int) bool {
-	for _, y := range xs {
-		if y == x {
-			return true
-		}
-	}
-	return false
 }
 
 // unitList names units for a message: "A", "B" and "C".
