@@ -1,7 +1,9 @@
 package dea_test
 
 import (
+	"context"
 	"math"
+	"slices"
 	"testing"
 
 	"peerlens/engine/dea"
@@ -98,6 +100,25 @@ func TestBadlyScaledLargeStudyAllVerified(t *testing.T) {
 		for k, u := range res.Units {
 			if u.Status == dea.NotSolved || !u.Cert.Verified {
 				t.Errorf("%s, %s, unit %d: status %v, problem %q, certificate %+v", c, nm.Name, k, u.Status, u.Problem, u.Cert)
+			}
+		}
+		// Shared over three workers (Options.Part/Parts), the run gives
+		// the same numbers bit for bit, fallbacks included.
+		var parts []*dea.Result
+		for w := 0; w < 3; w++ {
+			r, err := dea.RunWith(context.Background(), c.Data, m, dea.Options{Part: w, Parts: 3, Workers: 1})
+			if err != nil {
+				t.Fatal(err)
+			}
+			parts = append(parts, r)
+		}
+		merged, err := dea.Merge(parts...)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for k, u := range merged.Units {
+			if w := res.Units[k]; u.Index != w.Index || u.Score != w.Score || !slices.Equal(u.Peers, w.Peers) {
+				t.Errorf("%s, %s, unit %d: shared run gives %v %v, one run %v %v", c, nm.Name, k, u.Score, u.Peers, w.Score, w.Peers)
 			}
 		}
 	}

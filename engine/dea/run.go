@@ -317,7 +317,7 @@ func newEvaluator(sc *scaled, d *Data, m Model, cand []int) *evaluator {
 
 // reset forgets the warm starts of the units evaluated so far.
 func (ev *evaluator) reset() {
-	for _, e := range [...]*envelope{ev.main, ev.crs, ev.vrs, ev.nirs} {
+	for _, e := range [...]*envelope{ev.main, ev.crs, ev.vrs, ev.nirs, ev.wideEnv} {
 		if e != nil {
 			e.forget()
 		}
