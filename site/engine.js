@@ -41,6 +41,10 @@
 // POOL_FROM is the number of included units from which a run is shared;
 // below it one runner is quicker than starting several.
 const POOL_FROM = 2000;
+
+// SPARE_UP_TO is the largest study after whose shared run a runner is kept
+// as the spare for the next run (see runShared).
+const SPARE_UP_TO = 20000;
 const MAX_RUNNERS = 8;
 
 const XLSX_TYPE = 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet';
@@ -352,8 +356,12 @@ export class Engine {
     };
     const promise = work().then(
       (result) => {
-        this.keepOrStop(runners[0]);
-        runners.slice(1).forEach((r) => r.terminate(new EngineError('The runner was stopped.')));
+        // A runner's WebAssembly memory keeps the size the run grew it to,
+        // so after a very large study none is kept: the next run starts a
+        // fresh one.
+        const keep = includedCount(study) <= SPARE_UP_TO ? 1 : 0;
+        if (keep) this.keepOrStop(runners[0]);
+        runners.slice(keep).forEach((r) => r.terminate(new EngineError('The runner was stopped.')));
         return result;
       },
       (err) => {

@@ -18,9 +18,11 @@
 // them (the frontier: its parts, then the last check; the units; then the
 // results handed to the page and merged), progress updates seen, the peak of
 // performance.memory.usedJSHeapSize on the page's thread (the workers' heaps
-// are not in it), and the peak of the summed resident memory (RSS) of the
-// Chromium processes, read from /proc every 500 ms (shared pages are counted
-// once per process, so the sum overstates). Then the same as a JSON line.
+// are not in it), and the peaks of the summed resident memory (RSS) and of
+// the summed proportional set size (PSS) of the Chromium processes, read
+// from /proc every 500 ms (RSS counts shared pages once per process, so its
+// sum overstates; PSS divides them, so its sum is the memory really used).
+// Then the same as a JSON line.
 package main
 
 import (
@@ -56,7 +58,8 @@ type Measure struct {
 	Frontier    int     `json:"frontier"`
 	PeakHeapMB  float64 `json:"peakPageHeapMB"`
 	PeakRSSMB   float64 `json:"peakChromiumRSSMB"`
-	Load1       string  `json:"loadAverage"` // /proc/loadavg at the start and at the end
+	PeakPSSMB   float64 `json:"peakChromiumPSSMB"` // proportional set size: shared pages split, so the sum is the real total
+	Load1       string  `json:"loadAverage"`       // /proc/loadavg at the start and at the end
 }
 
 // pageState is what the page keeps about the run, polled from here.
@@ -133,9 +136,9 @@ func run(sizes string, seed uint64, chrome string, limit time.Duration) error {
 			return fmt.Errorf("%d units: %w", n, err)
 		}
 		os.Remove(filepath.Join(site, name))
-		fmt.Printf("browser: %d units, %d runner workers (hardwareConcurrency %d), wall %.2f s (frontier %.2f s: parts %.2f s, last check %.2f s; units %.2f s; results to the page %.2f s), %d progress updates, frontier %d units, peak page heap %.1f MB, peak Chromium RSS (sum) %.0f MB, load average %s\n",
+		fmt.Printf("browser: %d units, %d runner workers (hardwareConcurrency %d), wall %.2f s (frontier %.2f s: parts %.2f s, last check %.2f s; units %.2f s; results to the page %.2f s), %d progress updates, frontier %d units, peak page heap %.1f MB, peak Chromium RSS (sum) %.0f MB, PSS (sum) %.0f MB, load average %s\n",
 			m.Units, m.Workers, m.Processors, m.WallSec, m.FrontierSec, m.PartsSec, m.FrontierSec-m.PartsSec, m.ComputedSec-m.FrontierSec, m.WallSec-m.ComputedSec,
-			m.Updates, m.Frontier, m.PeakHeapMB, m.PeakRSSMB, m.Load1)
+			m.Updates, m.Frontier, m.PeakHeapMB, m.PeakRSSMB, m.PeakPSSMB, m.Load1)
 		line, _ := json.Marshal(m)
 		fmt.Println(string(line))
 	}
@@ -213,7 +216,9 @@ func measure(base, studyFile, chrome, profile string, limit time.Duration) (*Mea
 	defer tick.Stop()
 	lastPrint := time.Now()
 	for {
-		if rss := chromiumRSS(); rss > m.PeakRSSMB {
+		rss, pss := chromiumMemory()
+		m.PeakPSSMB = max(m.PeakPSSMB, pss)
+		if rss > m.PeakRSSMB {
 			m.PeakRSSMB = rss
 		}
 		if st, err = chromedp.Run(ctx, chromedp.Evaluate[pageState](`window.benchState`)); err != nil {
@@ -244,12 +249,14 @@ func measure(base, studyFile, chrome, profile string, limit time.Duration) (*Mea
 	return m, nil
 }
 
-// chromiumRSS sums the resident memory of this program's descendants (the
-// Chromium processes chromedp started), in MB.
-func chromiumRSS() float64 {
+// chromiumMemory sums the resident memory (RSS) and the proportional set
+// size (PSS, from smaps_rollup: each shared page divided among the
+// processes sharing it) of this program's descendants (the Chromium
+// processes chromedp started), in MB.
+func chromiumMemory() (rssTotal, pssTotal float64) {
 	entries, err := os.ReadDir("/proc")
 	if err != nil {
-		return 0
+		return 0, 0
 	}
 	parent := map[int]int{}
 	rss := map[int]float64{}
@@ -274,16 +281,31 @@ func chromiumRSS() float64 {
 		}
 	}
 	self := os.Getpid()
-	total := 0.0
 	for pid, mb := range rss {
 		for p := parent[pid]; p > 1; p = parent[p] {
 			if p == self {
-				total += mb
+				rssTotal += mb
+				pssTotal += pssMB(pid)
 				break
 			}
 		}
 	}
-	return total
+	return rssTotal, pssTotal
+}
+
+// pssMB reads a process's proportional set size, in MB (0 when unknown).
+func pssMB(pid int) float64 {
+	b, err := os.ReadFile(filepath.Join("/proc", strconv.Itoa(pid), "smaps_rollup"))
+	if err != nil {
+		return 0
+	}
+	for _, line := range strings.Split(string(b), "\n") {
+		if f := strings.Fields(line); len(f) >= 2 && f[0] == "Pss:" {
+			kb, _ := strconv.ParseFloat(f[1], 64)
+			return kb / 1024
+		}
+	}
+	return 0
 }
 
 func loadAverage() string {
