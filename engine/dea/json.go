@@ -31,7 +31,17 @@ func (r *Result) AppendJSON(b []byte) []byte {
 			if k > 0 {
 				b = append(b, ',')
 			}
+			at := len(b)
 			b = r.Units[k].appendJSON(b)
+			if k == 0 && len(r.Units) > 1 {
+				// Room for the rest at the first unit's size and a fifth
+				// more, so that a large result is not copied over and
+				// over as it grows.
+				need := (len(b)-at+1)*len(r.Units)*6/5 + 16*len(r.Frontier) + 64
+				if cap(b)-len(b) < need {
+					b = append(make([]byte, 0, len(b)+need), b...)
+				}
+			}
 		}
 		b = append(b, ']')
 	}

@@ -30,6 +30,12 @@ func JSON(v any) ([]byte, error) {
 	return e.b, nil
 }
 
+// jsonAppender is a json.Marshaler that can also append its JSON form to a
+// buffer (dea.Result does); its output must equal MarshalJSON's.
+type jsonAppender interface {
+	AppendJSON(b []byte) []byte
+}
+
 type encoder struct {
 	b     []byte
 	depth int
@@ -55,6 +61,10 @@ func (e *encoder) value(v reflect.Value) error {
 	if v.Type().Implements(marshalerType) {
 		if v.Kind() == reflect.Pointer && v.IsNil() {
 			e.b = append(e.b, "null"...)
+			return nil
+		}
+		if a, ok := v.Interface().(jsonAppender); ok {
+			e.b = a.AppendJSON(e.b) // large results: written in place, not copied
 			return nil
 		}
 		raw, err := v.Interface().(json.Marshaler).MarshalJSON()

@@ -106,6 +106,20 @@ func TestJSONHonoursMarshalers(t *testing.T) {
 	if u["score"] != 0.5 || u["inputs"].([]any)[0].(map[string]any)["changePercent"] != nil {
 		t.Errorf("JSON(result) = %s", got)
 	}
+	// Written in place (AppendJSON) or through MarshalJSON, value or
+	// pointer, alone or inside another value: the same bytes.
+	r.Units = append(r.Units, r.Units[0], r.Units[0])
+	r.Frontier = []int{0, 2}
+	want, _ := r.MarshalJSON()
+	for _, v := range []any{r, &r} {
+		if got, err := JSON(v); err != nil || string(got) != string(want) {
+			t.Errorf("JSON(%T) = %s, %v; MarshalJSON gives %s", v, got, err, want)
+		}
+	}
+	wrapped, err := JSON(map[string]any{"result": &r})
+	if err != nil || string(wrapped) != `{"result":`+string(want)+`}` {
+		t.Errorf("JSON(wrapped result) = %s, %v", wrapped, err)
+	}
 }
 
 func TestJSONInvalidUTF8AndUnsupported(t *testing.T) {
