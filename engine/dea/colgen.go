@@ -49,8 +49,6 @@ type restricted struct {
 	bestD []float64
 	bestJ []int
 	dots  []float64 // pricing's buffer
-	// passes counts pricing passes over all columns (for tests and tuning).
-	passes int
 }
 
 // solve solves full by column generation. The columns in fixed are always
@@ -92,7 +90,6 @@ func (rs *restricted) solve(full *lp.Problem, fixed []int, lo, hi int, init, bas
 		if err == nil && sol.Stopped {
 			return rs.result(sol, iters, phase1), nil
 		}
-		rs.passes++
 		if rs.price(full, lo, hi, sol.Y) == 0 {
 			if infeasible {
 				rs.y = append(rs.y[:0], sol.Y...)
