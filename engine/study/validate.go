@@ -1,6 +1,7 @@
 package study
 
 import (
+	"encoding/binary"
 	"fmt"
 	"math"
 	"strings"
@@ -351,15 +352,20 @@ func (v *validator) identicalUnits() {
 	}
 	groups := map[string][]int{}
 	var order []string
+	key := make([]byte, 8*len(used))
 	for _, i := range v.units {
-		var key strings.Builder
-		for _, j := range used {
-			fmt.Fprintf(&key, "%v|", v.s.Values[i][j])
+		// The key is the values' bits: equal exactly when the values are
+		// (0 and -0 apart), without formatting numbers.
+		nan := false
+		for q, j := range used {
+			x := v.s.Values[i][j]
+			nan = nan || math.IsNaN(x)
+			binary.LittleEndian.PutUint64(key[8*q:], math.Float64bits(x))
 		}
-		k := key.String()
-		if strings.Contains(k, "NaN") {
+		if nan {
 			continue
 		}
+		k := string(key)
 		if groups[k] == nil {
 			order = append(order, k)
 		}
