@@ -2,6 +2,7 @@ package dea
 
 import (
 	"errors"
+	"math"
 
 	"peerlens/engine/internal/kernel"
 	"peerlens/engine/lp"
@@ -49,6 +50,11 @@ type restricted struct {
 	bestD []float64
 	bestJ []int
 	dots  []float64 // pricing's buffer
+	// Row factors of the restricted program (powers of two) and its scaled
+	// right-hand side; rowsSet says the factors apply to columns added.
+	r, b    []float64
+	s       []float64 // column factors, one per restricted column
+	rowsSet bool
 }
 
 // solve solves full by column generation. The columns in fixed are always
@@ -66,6 +72,7 @@ func (rs *restricted) solve(full *lp.Problem, fixed []int, lo, hi int, init, bas
 		}
 	}
 	rs.cols = rs.cols[:0]
+	rs.rowsSet = false
 	rs.prob = lp.Problem{Rows: R, A: rs.prob.A[:0], B: full.B, C: rs.prob.C[:0]}
 	for _, j := range fixed {
 		rs.add(full, j)
@@ -73,6 +80,7 @@ func (rs *restricted) solve(full *lp.Problem, fixed []int, lo, hi int, init, bas
 	for _, j := range init {
 		rs.add(full, j)
 	}
+	rs.scaleRows()
 	rs.rb = rs.mapBasis(basis)
 	iters, phase1 := 0, false
 	for {
@@ -86,6 +94,11 @@ func (rs *restricted) solve(full *lp.Problem, fixed []int, lo, hi int, init, bas
 		infeasible := errors.Is(err, lp.ErrInfeasible)
 		if err != nil && !infeasible {
 			return nil, err
+		}
+		if sol != nil {
+			for i, f := range rs.r {
+				sol.Y[i] *= f // the duals of the program as given
+			}
 		}
 		if err == nil && sol.Stopped {
 			return rs.result(sol, iters, phase1), nil
@@ -121,6 +134,75 @@ func (rs *restricted) add(full *lp.Problem, j int) {
 	rs.at[j] = int32(len(rs.cols))
 	rs.prob.A = append(rs.prob.A, full.A[j*full.Rows:(j+1)*full.Rows]...)
 	rs.prob.C = append(rs.prob.C, full.C[j])
+	if rs.rowsSet {
+		rs.scaleColumn(len(rs.cols) - 1)
+	}
+}
+
+// scaleRows scales each row of the restricted program by a power of two
+// near the inverse of the evaluated point's own entry in it. The
+// solver's tolerances are absolute, and the data are scaled by each
+// measure's mean, so a unit whose value on some measure is tiny next to
+// that mean would otherwise have that row held to a tolerance far too loose
+// for it. Scaling rows changes neither the solution nor the basis; the
+// duals are scaled back after each solve (y_i = r_i y'_i).
+func (rs *restricted) scaleRows() {
+	R := rs.prob.Rows
+	rs.r = grow(rs.r, R)
+	rs.b = grow(rs.b, R)
+	// The point's own entries set the scale: its right-hand side and the
+	// score column (the program's first column); rows where both are zero
+	// take their largest entry.
+	a := rs.prob.A
+	for i := range rs.r {
+		rs.r[i] = math.Max(math.Abs(rs.prob.B[i]), math.Abs(a[i]))
+		if rs.r[i] == 0 {
+			for c := 0; c+R <= len(a); c += R {
+				rs.r[i] = math.Max(rs.r[i], math.Abs(a[c+i]))
+			}
+		}
+	}
+	for i, v := range rs.r {
+		rs.r[i] = 1
+		if v > 0 && !math.IsInf(v, 0) {
+			rs.r[i] = pow2(1 / v)
+		}
+	}
+	rs.s = rs.s[:0]
+	for k := 0; (k+1)*R <= len(a); k++ {
+		rs.scaleColumn(k)
+	}
+	for i, f := range rs.r {
+		rs.b[i] = rs.prob.B[i] * f
+	}
+	rs.prob.B = rs.b
+	rs.rowsSet = true
+}
+
+// scaleColumn applies the row factors to restricted column k, then scales
+// the column by a power of two near the inverse of its largest entry
+// (cost included), so that the solver's absolute tolerances on the
+// variables also mean the same for every column: a unit far larger than the
+// evaluated point on some measure would otherwise enter at a value the
+// tolerances cannot tell from zero. The solution is scaled back (x_k =
+// s_k x'_k); reduced costs keep their signs.
+func (rs *restricted) scaleColumn(k int) {
+	R := rs.prob.Rows
+	col := rs.prob.A[k*R : (k+1)*R]
+	top := math.Abs(rs.prob.C[k])
+	for i, f := range rs.r {
+		col[i] *= f
+		top = math.Max(top, math.Abs(col[i]))
+	}
+	f := 1.0
+	if top > 0 && !math.IsInf(top, 0) {
+		f = pow2(1 / top)
+	}
+	for i := range col {
+		col[i] *= f
+	}
+	rs.prob.C[k] *= f
+	rs.s = append(rs.s, f)
 }
 
 func (rs *restricted) mapBasis(basis []int) []int {
@@ -184,7 +266,7 @@ func (rs *restricted) result(sol *lp.Solution, iters int, phase1 bool) *lp.Solut
 	rs.x = grow(rs.x, N)
 	clear(rs.x)
 	for k, j := range rs.cols {
-		rs.x[j] = sol.X[k]
+		rs.x[j] = sol.X[k] * rs.s[k]
 	}
 	rs.basis = rs.basis[:0]
 	for _, k := range sol.Basis {
