@@ -10,9 +10,13 @@ import (
 
 // restrictAbove is the reference-set size above which an envelopment program
 // is solved by column generation (restricted.solve) instead of over all its
-// columns at once. It is a variable so that tests can send small programs
-// down the same path.
-var restrictAbove = 128
+// columns at once. It is zero: every unit's program goes this way, small
+// ones too, because the restricted program is scaled to the unit (see
+// scaleRows), which the whole program is not. Screening programs, which
+// only need to know whether a score is below 1 and whose answers are
+// checked (see dominated), and careful second attempts solve whole
+// programs. It is a variable so that tests can compare both ways.
+var restrictAbove = 0
 
 // poolSize is the number of recently useful lambda columns an envelope keeps
 // to start the next point's restricted program with.

@@ -13,10 +13,10 @@ import (
 // generator (including hard ones: ties, slack-only dominance, zeros,
 // collinear measures, wide magnitudes, units of very different sizes) and
 // every model of the grid, solved once with every program over all its
-// columns and once with every program by column generation (the solver
-// path that large studies take), must agree on scores, slack sums,
-// targets, super-efficiency and the returns-to-scale detail. The first way
-// is the one checked against glpsol in TestModelsAgainstGlpsol.
+// columns and once by column generation (the way every unit's program is
+// solved, and the one TestModelsAgainstGlpsol checks against glpsol), must
+// agree on scores, slack sums, targets, super-efficiency and the
+// returns-to-scale detail.
 func TestColumnGenerationMatchesWholeProgram(t *testing.T) {
 	var cs []genCase
 	for _, k := range genKinds {

@@ -3,6 +3,7 @@ package dea
 import (
 	"context"
 	"fmt"
+	"math"
 	"math/rand/v2"
 	"runtime"
 	"slices"
@@ -78,7 +79,9 @@ const keepAbove = 1 - 1e-6
 // round evaluates every remaining candidate against all of them.
 //
 // Screening needs only to know whether a score is below 1, so each program
-// stops as soon as a combination proves it is (lp.Options.Cutoff).
+// stops as soon as a combination proves it is (lp.Options.Cutoff), and a
+// unit is dropped only when that combination, checked row by row against
+// the unit's own values, holds (dominated).
 //
 // Super-efficiency leaves the unit out of its own reference set, which can
 // break this argument for units of C, so it is solved with column generation
@@ -302,9 +305,66 @@ func screen(ctx context.Context, sc *scaled, ref, check []int) ([]int, error) {
 			}
 		}
 		p, err := env.solve(sc.x[j], sc.y[j], j, false, false)
-		if err != nil || p.score > keepAbove {
+		if err != nil || p.score > keepAbove || !dominated(sc, ref, p, j) {
 			kept = append(kept, j) // keep on any doubt
 		}
 	}
 	return kept, nil
+}
+
+// dominated checks, row by row against the unit's own values, that the
+// combination a screening program found really uses less of every input
+// than unit j (at most keepAbove times as much) and makes at least as much
+// of every output, with lambdas summing to 1. The solver's tolerances are
+// absolute and the data scaled by each measure's mean, so on a measure
+// whose values span many orders of magnitude its answer can be off for a
+// unit that is small on that measure; a unit is dropped only on a
+// combination that holds.
+func dominated(sc *scaled, ref []int, p *point, j int) bool {
+	const tol = 1e-9
+	var sx [8]float64
+	var sy [8]float64
+	in, out := sx[:0], sy[:0]
+	if sc.m > len(sx) || sc.s > len(sy) {
+		in, out = make([]float64, 0, sc.m), make([]float64, 0, sc.s)
+	}
+	in, out = in[:sc.m], out[:sc.s]
+	clear(in)
+	clear(out)
+	sum := 0.0
+	for _, c := range p.basis { // only basic lambdas can be nonzero
+		k := c - 1
+		if k < 0 || k >= len(ref) {
+			continue
+		}
+		l := p.lambda[k]
+		if l == 0 {
+			continue
+		}
+		if l < 0 {
+			return false
+		}
+		u := ref[k]
+		for i, v := range sc.x[u] {
+			in[i] += l * v
+		}
+		for r, v := range sc.y[u] {
+			out[r] += l * v
+		}
+		sum += l
+	}
+	if p.self != 0 || math.Abs(sum-1) > tol {
+		return false
+	}
+	for i, v := range sc.x[j] {
+		if in[i] > keepAbove*v*(1+tol) {
+			return false
+		}
+	}
+	for r, v := range sc.y[j] {
+		if out[r] < v*(1-tol) {
+			return false
+		}
+	}
+	return true
 }
