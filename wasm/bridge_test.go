@@ -5,6 +5,7 @@ package main
 import (
 	"bytes"
 	"context"
+	"math"
 	"regexp"
 	"slices"
 	"strings"
@@ -311,7 +312,11 @@ func TestFrontierThenSharedRun(t *testing.T) {
 	for k, j := range []int{3, 1} {
 		u, _ := us.Index(k)
 		sv, _ := u.Get("score")
-		if s, _ := sv.Float(); s != nr.Units[j].Score {
+		// To rounding: a list of units that is not a union of the engine's
+		// chunks can start each program from other columns (shares by part
+		// are identical bit for bit; see TestSharedRunThroughBridge and the
+		// dea tests).
+		if s, _ := sv.Float(); math.Abs(s-nr.Units[j].Score) > 1e-12 {
 			t.Errorf("unit %d: shared run score %v, whole run %v", j, s, nr.Units[j].Score)
 		}
 	}

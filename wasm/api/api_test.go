@@ -181,7 +181,10 @@ func TestRunSubsetOfUnits(t *testing.T) {
 	}
 	f, _ := ReadResult(full)
 	p, _ := ReadResult(part)
-	if len(p.Units) != 2 || p.Units[0].Name != f.Units[4].Name || p.Units[1].Score != f.Units[1].Score {
+	// The same scores to rounding: a list of units that is not a union of
+	// the engine's chunks can start each program from other columns (bit
+	// for bit equality is promised for shares, see dea.Options.Parts).
+	if len(p.Units) != 2 || p.Units[0].Name != f.Units[4].Name || math.Abs(p.Units[1].Score-f.Units[1].Score) > 1e-12 {
 		t.Errorf("subset run = %+v", p.Units)
 	}
 }
