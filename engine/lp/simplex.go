@@ -359,20 +359,22 @@ func (sv *solver) dotColumn(j int, v []float64) float64 {
 // the last basis (and of a basis tryBasis left half installed) leave pos,
 // and the artificial columns' bars are lifted.
 func (sv *solver) release() {
+	sv.uninstall()
+	clear(sv.barred[min(sv.n, len(sv.barred)):])
+}
+
+// uninstall takes the columns of the installed basis out of pos.
+func (sv *solver) uninstall() {
 	for _, j := range sv.basis[:sv.installed] {
 		sv.pos[j] = -1
 	}
 	sv.installed = 0
-	clear(sv.barred[min(sv.n, len(sv.barred)):])
 }
 
 // tryBasis installs a caller's basis; it reports false when the basis is
 // singular or not primal feasible.
 func (sv *solver) tryBasis(basis []int) bool {
-	for _, j := range sv.basis[:sv.installed] {
-		sv.pos[j] = -1
-	}
-	sv.installed = 0
+	sv.uninstall()
 	for k, j := range basis {
 		if j < 0 || j >= sv.n || sv.pos[j] >= 0 {
 			return false
@@ -394,8 +396,9 @@ func (sv *solver) tryBasis(basis []int) bool {
 
 // refactor recomputes the basis inverse and the basic values from scratch:
 // an LU factorisation with partial pivoting and the inverse from it
-// (invertSmall for small bases, gonum's lapack64.Getrf and Getri beyond). The basis is refused when its 1-norm condition
-// number, computed exactly from the basis and its inverse, exceeds 1e13.
+// (invertSmall for small bases, gonum's lapack64.Getrf and Getri beyond).
+// The basis is refused when its 1-norm condition number, computed exactly
+// from the basis and its inverse, exceeds 1e13.
 func (sv *solver) refactor() error {
 	m := sv.m
 	sv.lu = grow(sv.lu, m*m)
@@ -448,9 +451,7 @@ func (sv *solver) refactor() error {
 // phase1 finds a feasible basis, starting from the artificial basis.
 func (sv *solver) phase1() error {
 	m, n := sv.m, sv.n
-	for _, j := range sv.basis[:sv.installed] {
-		sv.pos[j] = -1
-	}
+	sv.uninstall()
 	for k := 0; k < m; k++ {
 		sv.basis[k] = n + k
 		sv.pos[n+k] = k
