@@ -145,7 +145,7 @@ type envelope struct {
 	lam []float64
 	// dots is the buffer of certify's pass over the reference units.
 	dots []float64
-	// Column generation for large reference sets (see restricted): one
+	// Column generation (see restricted and restrictedMode): one
 	// restricted program per stage, the columns always in it, and a ring
 	// of lambda columns that were basic in recent solutions, which start
 	// the next point's program.

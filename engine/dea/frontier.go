@@ -298,6 +298,7 @@ func screen(ctx context.Context, sc *scaled, ref, check []int) ([]int, error) {
 	env.cutoff = keepAbove
 	env.noRestrict = true // screening programs end early: plain pricing is faster
 	var kept []int
+	in, out := make([]float64, sc.m), make([]float64, sc.s)
 	for k, j := range check {
 		if k%64 == 0 {
 			if err := ctx.Err(); err != nil {
@@ -305,7 +306,7 @@ func screen(ctx context.Context, sc *scaled, ref, check []int) ([]int, error) {
 			}
 		}
 		p, err := env.solve(sc.x[j], sc.y[j], j, false, false)
-		if err != nil || p.score > keepAbove || !dominated(sc, ref, p, j) {
+		if err != nil || p.score > keepAbove || !dominated(sc, ref, p, j, in, out) {
 			kept = append(kept, j) // keep on any doubt
 		}
 	}
@@ -319,16 +320,10 @@ func screen(ctx context.Context, sc *scaled, ref, check []int) ([]int, error) {
 // absolute and the data scaled by each measure's mean, so on a measure
 // whose values span many orders of magnitude its answer can be off for a
 // unit that is small on that measure; a unit is dropped only on a
-// combination that holds.
-func dominated(sc *scaled, ref []int, p *point, j int) bool {
+// combination that holds. in and out are buffers of one value per input and
+// output.
+func dominated(sc *scaled, ref []int, p *point, j int, in, out []float64) bool {
 	const tol = 1e-9
-	var sx [8]float64
-	var sy [8]float64
-	in, out := sx[:0], sy[:0]
-	if sc.m > len(sx) || sc.s > len(sy) {
-		in, out = make([]float64, 0, sc.m), make([]float64, 0, sc.s)
-	}
-	in, out = in[:sc.m], out[:sc.s]
 	clear(in)
 	clear(out)
 	sum := 0.0

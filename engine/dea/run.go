@@ -291,7 +291,6 @@ type evaluator struct {
 	// wideEnv is the envelope over all units, for the rare unit whose
 	// program over the candidate set fails (see unit); made on first use.
 	wideEnv *envelope
-	wideRef []int
 	// checkBuf is checkSet's buffer (one per evaluator, so per goroutine).
 	checkBuf []int
 }
@@ -428,10 +427,7 @@ func (ev *evaluator) attempt(e *envelope, o int) (*point, Certificate, error) {
 	cert := e.certify(p, x0, y0, o, checks)
 	if !cert.Verified {
 		saved := append([]float64(nil), p.lambda...) // solve reuses the lambda buffer
-		e.careful = true
-		q, err2 := e.solve(x0, y0, o, false, m.SecondStage)
-		e.careful = false
-		if err2 == nil {
+		if q, err2 := e.solveCarefully(x0, y0, o, m.SecondStage); err2 == nil {
 			holdAtOne(m, q)
 			if c := e.certify(q, x0, y0, o, checks); c.Verified {
 				return q, c, nil
@@ -448,17 +444,15 @@ func (ev *evaluator) wide() *envelope {
 	if len(ev.cand) == ev.sc.n {
 		return nil
 	}
-	if ev.all == nil {
-		all := make([]int, ev.sc.n)
-		for j := range all {
-			all[j] = j
-		}
-		ev.wideRef = all
-	} else {
-		ev.wideRef = ev.all
-	}
 	if ev.wideEnv == nil {
-		ev.wideEnv = newEnvelope(ev.sc, ev.wideRef, ev.m)
+		all := ev.all
+		if all == nil {
+			all = make([]int, ev.sc.n)
+			for j := range all {
+				all[j] = j
+			}
+		}
+		ev.wideEnv = newEnvelope(ev.sc, all, ev.m)
 	}
 	return ev.wideEnv
 }
@@ -468,11 +462,17 @@ func (ev *evaluator) wide() *envelope {
 func (e *envelope) solveOrRetry(x, y []float64, o int, second bool) (*point, error) {
 	p, err := e.solve(x, y, o, false, second)
 	if err != nil && !errors.Is(err, ErrNoFiniteScore) {
-		e.careful = true
-		p, err = e.solve(x, y, o, false, second)
-		e.careful = false
+		p, err = e.solveCarefully(x, y, o, second)
 	}
 	return p, err
+}
+
+// solveCarefully solves a unit's program whole, with the solver's own
+// scaling and a fresh phase 1 (the second attempt after trouble).
+func (e *envelope) solveCarefully(x, y []float64, o int, second bool) (*point, error) {
+	e.careful = true
+	defer func() { e.careful = false }()
+	return e.solve(x, y, o, false, second)
 }
 
 // holdAtOne keeps a unit's own score at 1 or better: the unit itself is a
